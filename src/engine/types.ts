@@ -1,0 +1,47 @@
+// The seam between the driver and the kernels (WASM or the plain-TS twin).
+// A kernel simulates one block of paths from its own stream and returns raw per-path values;
+// everything statistical happens above this seam.
+
+/** Order of the measures in a kernel's output record. */
+export const KERNEL_MEASURES = ["perimeter", "diameter", "area", "vertices"] as const;
+export const MEASURES_PER_RECORD = 4;
+
+/** Law codes shared by assembly/ and the TS twin. */
+export const LAW_CODE = { gaussian: 0, discrete: 1, circle: 2, student: 3, empirical: 4 } as const;
+
+/**
+ * One walk's step law, packed for the kernels (built by src/engine/compile.ts).
+ * params layout by code:
+ *  gaussian  0: [mx, my, l11, l21, l22]            step = m + L z, L lower-triangular, C = L L'
+ *  discrete  1: [m, x_0, y_0, ..., x_{m-1}, y_{m-1}, prob_0..prob_{m-1}, alias_0..alias_{m-1}]  (Walker/Vose alias)
+ *  circle    2: [mx, my, r]                         step = m + r (cos U, sin U)
+ *  student   3: [mx, my, l11, l21, l22, dof]        step = m + L z / sqrt(W / dof), W ~ chi2(dof)
+ *  empirical 4: [m, x_0, y_0, ..., x_{m-1}, y_{m-1}] step = a uniformly chosen row
+ */
+export interface CompiledWalk {
+  code: number;
+  params: Float64Array;
+}
+
+export interface KernelSetup {
+  walks: CompiledWalk[];
+  /** Strictly increasing step counts; values are computed at every n of the grid along one path. */
+  grid: number[];
+  /** Suite seed (non-negative integer < 2^53). */
+  seed: number;
+}
+
+export interface Kernel {
+  /**
+   * Simulate `pathCount` paths of block `block`, the block's stream derived from (seed, block) by a
+   * seed mixer. Returns a fresh Float64Array of length pathCount * grid.length * 4, laid out
+   * [path][gridIndex][measure] with the measures in KERNEL_MEASURES order.
+   */
+  runBlock(block: number, pathCount: number): Float64Array;
+  /**
+   * One path of the block's stream (its first path), for plots: the points of each walk up to
+   * the largest n (walk-major: walk j's points are points[j][0..nMax]) and the hull vertices
+   * (counter-clockwise, no repeated or collinear vertices).
+   */
+  samplePath(block: number): { points: Float64Array[]; hull: Float64Array };
+}
