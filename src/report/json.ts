@@ -1,0 +1,163 @@
+// The JSON report: the contract read by scripts (`results` rows, `checks`, ...). Add fields, never rename.
+
+import { createHash } from "node:crypto";
+import { readFileSync, renameSync, writeFileSync, mkdirSync } from "node:fs";
+import { cpus } from "node:os";
+import { dirname } from "node:path";
+import { execFileSync } from "node:child_process";
+import { fileURLToPath } from "node:url";
+import type { SimulationResult, BlockStats, ResultRecord } from "../run/types.js";
+import type { Prediction } from "../theory/types.js";
+import type { LoadedSuite } from "../suite/schema.js";
+import { mergeBlocks } from "../run/blocks.js";
+import { covarianceMatrix } from "../stats/moments.js";
+import { KERNEL_MEASURES, MEASURES_PER_RECORD } from "../engine/types.js";
+
+export const REPORT_FORMAT = "walkhull-report/1";
+
+export interface Provenance {
+  tool: "walkhull";
+  version: string;
+  gitCommit: string | null;
+  node: string;
+  wasmSha256: string | null;
+  cpu: string;
+  cpuCount: number;
+  workers: number;
+  seed: number;
+  suiteHash: string;
+  startedAt: string;
+  wallSeconds: number;
+}
+
+export interface Report {
+  format: string;
+  suite: ReturnType<typeof suiteForReport>;
+  seed: number;
+  version: string;
+  timing: { wallSeconds: number; pathsPerSecond: number; workers: number };
+  provenance: Provenance;
+  results: ResultRecord[];
+  predictions?: Prediction;
+  checks?: unknown[];
+  limits?: unknown[];
+  /** Covariance between measures at each n (over the kept measures of the suite). */
+  covariance: { n: number; measures: string[]; matrix: number[][] }[];
+  /** Per-block moment sums, for jackknife re-analysis and exact shard merges. */
+  blocks: BlockStats[];
+  blockCount: number;
+  /** Indices of the blocks this report holds (all of them unless it is a shard). */
+  shard?: { index: number; count: number } | null;
+  exitCode?: number;
+}
+
+const ROOT = fileURLToPath(new URL("../../", import.meta.url));
+
+export function toolVersion(): string {
+  try {
+    return JSON.parse(readFileSync(ROOT + "package.json", "utf8")).version as string;
+  } catch {
+    return "unknown";
+  }
+}
+
+function gitCommit(): string | null {
+  try {
+    return execFileSync("git", ["rev-parse", "HEAD"], { cwd: ROOT, stdio: ["ignore", "pipe", "ignore"] }).toString().trim();
+  } catch {
+    return null;
+  }
+}
+
+function wasmHash(): string | null {
+  try {
+    return createHash("sha256").update(readFileSync(ROOT + "build/walkhull.wasm")).digest("hex");
+  } catch {
+    return null;
+  }
+}
+
+/** The suite as recorded in a report: empirical increments are summarised, not copied. */
+export function suiteForReport(suite: LoadedSuite) {
+  return {
+    ...suite,
+    walks: suite.walks.map((w) => (w.law === "empirical" ? { law: w.law, file: w.file, increments: w.steps?.length ?? 0 } : w)),
+  };
+}
+
+export function provenance(sim: SimulationResult, startedAt: Date): Provenance {
+  const cpu = cpus();
+  return {
+    tool: "walkhull",
+    version: toolVersion(),
+    gitCommit: gitCommit(),
+    node: process.version,
+    wasmSha256: wasmHash(),
+    cpu: cpu[0]?.model ?? "unknown",
+    cpuCount: cpu.length,
+    workers: sim.workers,
+    seed: sim.suite.seed,
+    suiteHash: sim.suite.hash,
+    startedAt: startedAt.toISOString(),
+    wallSeconds: sim.wallSeconds,
+  };
+}
+
+export function measureCovariance(sim: SimulationResult): Report["covariance"] {
+  if (sim.blocks.length === 0) return [];
+  const { comoments } = mergeBlocks(sim.blocks);
+  const cov = covarianceMatrix(comoments);
+  const dim = comoments.dim;
+  const idx = sim.suite.measure.map((m) => KERNEL_MEASURES.indexOf(m));
+  return sim.suite.n.map((n, g) => ({
+    n,
+    measures: [...sim.suite.measure],
+    matrix: idx.map((a) => idx.map((b) => cov[(g * MEASURES_PER_RECORD + a) * dim + g * MEASURES_PER_RECORD + b])),
+  }));
+}
+
+export function buildReport(
+  sim: SimulationResult,
+  startedAt: Date,
+  extra: { predictions?: Prediction; checks?: unknown[]; limits?: unknown[]; shard?: Report["shard"] } = {},
+): Report {
+  const prov = provenance(sim, startedAt);
+  const paths = sim.blocks.reduce((s, b) => s + b.paths, 0);
+  return {
+    format: REPORT_FORMAT,
+    suite: suiteForReport(sim.suite),
+    seed: sim.suite.seed,
+    version: prov.version,
+    timing: { wallSeconds: sim.wallSeconds, pathsPerSecond: paths / Math.max(sim.wallSeconds, 1e-9), workers: sim.workers },
+    provenance: prov,
+    results: sim.results,
+    ...(extra.predictions ? { predictions: extra.predictions } : {}),
+    ...(extra.checks ? { checks: extra.checks } : {}),
+    ...(extra.limits ? { limits: extra.limits } : {}),
+    covariance: measureCovariance(sim),
+    blocks: sim.blocks,
+    blockCount: sim.blockCount,
+    shard: extra.shard ?? null,
+  };
+}
+
+/** JSON with typed arrays as plain arrays and non-finite numbers as null. */
+export function toJson(v: unknown): string {
+  return JSON.stringify(
+    v,
+    (_k, x) => {
+      if (ArrayBuffer.isView(x) && !(x instanceof DataView)) return Array.from(x as unknown as ArrayLike<number>);
+      if (typeof x === "number" && !Number.isFinite(x)) return null;
+      return x;
+    },
+    1,
+  );
+}
+
+/** Write a file atomically: a temp file beside it, then rename (nothing half-written is left). */
+export function writeAtomic(path: string, text: string): void {
+  mkdirSync(dirname(path) || ".", { recursive: true });
+  const tmp = `${path}.tmp-${process.pid}`;
+  writeFileSync(tmp, text);
+  renameSync(tmp, path);
+}

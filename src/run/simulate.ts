@@ -1,0 +1,135 @@
+// One suite end to end on this thread: blocks -> kernel -> block statistics -> merged results.
+// The worker pool (pool.ts) runs the same block function on other threads; both merge in block order.
+
+import { compileWalks } from "../engine/compile.js";
+import { createTwinKernel } from "../engine/twin.js";
+import { createWasmKernel, loadWasmModuleSync } from "../engine/wasm.js";
+import type { Kernel, KernelSetup } from "../engine/types.js";
+import { KERNEL_MEASURES, MEASURES_PER_RECORD } from "../engine/types.js";
+import { summarize } from "../stats/moments.js";
+import { blockCount, blockRange } from "../suite/load.js";
+import type { LoadedSuite, Suite } from "../suite/schema.js";
+import { keptToSample, MAX_KEPT, mergeBlocks, mergeKept, summarizeBlock, type BlockOutput, type KeptCandidates } from "./blocks.js";
+import type { BlockStats, ResultRecord, SimulationResult } from "./types.js";
+
+export type KernelKind = "wasm" | "twin";
+
+export function kernelSetup(suite: Suite): KernelSetup {
+  return { walks: compileWalks(suite.walks), grid: suite.n, seed: suite.seed };
+}
+
+export function createKernel(suite: Suite, kind: KernelKind = "wasm", module?: WebAssembly.Module): Kernel {
+  const setup = kernelSetup(suite);
+  return kind === "twin" ? createTwinKernel(setup) : createWasmKernel(module ?? loadWasmModuleSync(), setup);
+}
+
+/** Simulate block b of the suite with the given kernel. */
+export function runOneBlock(kernel: Kernel, suite: Suite, b: number): BlockOutput {
+  const { first, count } = blockRange(suite.paths, blockCount(suite), b);
+  const values = kernel.runBlock(b, count);
+  return summarizeBlock(values, suite.n.length, suite.seed, b, first, count);
+}
+
+/** Accumulates block outputs (in any arrival order) into a SimulationResult. */
+export class BlockCollector {
+  readonly blocks = new Map<number, BlockStats>();
+  private kept: KeptCandidates = { pathIndex: [], hash: [], values: [] };
+  private readonly dim: number;
+  min: number[];
+  max: number[];
+
+  constructor(readonly suite: LoadedSuite) {
+    this.dim = suite.n.length * MEASURES_PER_RECORD;
+    this.min = new Array<number>(this.dim).fill(Infinity);
+    this.max = new Array<number>(this.dim).fill(-Infinity);
+  }
+
+  add(out: BlockOutput): void {
+    if (this.blocks.has(out.stats.block)) throw new Error(`block ${out.stats.block} delivered twice`);
+    this.blocks.set(out.stats.block, out.stats);
+    this.kept = mergeKept(this.kept, out.kept, this.dim, MAX_KEPT);
+    for (let j = 0; j < this.dim; j++) {
+      this.min[j] = Math.min(this.min[j], out.min[j]);
+      this.max[j] = Math.max(this.max[j], out.max[j]);
+    }
+  }
+
+  get keptCandidates(): KeptCandidates {
+    return this.kept;
+  }
+
+  restoreKept(k: KeptCandidates): void {
+    this.kept = k;
+  }
+
+  result(wallSeconds: number, workers: number): SimulationResult {
+    const blocks = [...this.blocks.values()].sort((a, b) => a.block - b.block);
+    return {
+      suite: this.suite,
+      blocks,
+      blockCount: blockCount(this.suite),
+      results: resultRecords(this.suite, blocks, this.min, this.max),
+      sample: keptToSample(this.kept, this.dim),
+      min: this.min,
+      max: this.max,
+      wallSeconds,
+      workers,
+    };
+  }
+}
+
+/** The `results` rows: one per measure of the suite and n of its grid, from block-ordered merges. */
+export function resultRecords(suite: Suite, blocks: BlockStats[], min: number[], max: number[]): ResultRecord[] {
+  if (blocks.length === 0) return [];
+  const { moments } = mergeBlocks(blocks);
+  const rows: ResultRecord[] = [];
+  for (const measure of suite.measure) {
+    const m = KERNEL_MEASURES.indexOf(measure);
+    suite.n.forEach((n, g) => {
+      const j = g * MEASURES_PER_RECORD + m;
+      const s = summarize(moments[j]);
+      rows.push({
+        measure,
+        n,
+        paths: s.count,
+        mean: s.mean,
+        meanSE: s.meanSE,
+        variance: s.variance,
+        varianceSE: s.varianceSE,
+        skewness: s.skewness,
+        excessKurtosis: s.excessKurtosis,
+        skewnessSE: s.skewnessSE,
+        excessKurtosisSE: s.excessKurtosisSE,
+        min: min[j],
+        max: max[j],
+      });
+    });
+  }
+  return rows;
+}
+
+export interface SimulateOptions {
+  kernel?: KernelKind;
+  /** Only these blocks (a shard); default all. */
+  blocks?: number[];
+  onBlock?: (done: number, total: number, paths: number) => void;
+}
+
+/** Simulate a suite on this thread. */
+export function simulateInProcess(suite: LoadedSuite, opts: SimulateOptions = {}): SimulationResult {
+  const t0 = performance.now();
+  const kernel = createKernel(suite, opts.kernel ?? "wasm");
+  const all = Array.from({ length: blockCount(suite) }, (_, b) => b);
+  const todo = opts.blocks ?? all;
+  const collector = new BlockCollector(suite);
+  let done = 0;
+  let paths = 0;
+  for (const b of todo) {
+    const out = runOneBlock(kernel, suite, b);
+    collector.add(out);
+    done++;
+    paths += out.stats.paths;
+    opts.onBlock?.(done, todo.length, paths);
+  }
+  return collector.result((performance.now() - t0) / 1000, 1);
+}

@@ -1,0 +1,56 @@
+// What one simulated suite produces, before verdicts: the data the verdict and report stages read.
+
+import type { LoadedSuite, Measure } from "../suite/schema.js";
+import type { CoMomentState, MomentState } from "../stats/types.js";
+
+/** The statistics of one block of paths. */
+export interface BlockStats {
+  block: number;
+  /** First global path index of the block and its number of paths. */
+  firstPath: number;
+  paths: number;
+  /** Moment sums indexed [gridIndex * 4 + measureIndex] (all four kernel measures). */
+  moments: MomentState[];
+  /** Co-moments of the (gridIndex, measure) vector, dim = grid.length * 4. */
+  comoments: CoMomentState;
+}
+
+/** One row of the JSON report's `results` array (contract: keep these names). */
+export interface ResultRecord {
+  measure: Measure;
+  n: number;
+  paths: number;
+  mean: number;
+  meanSE: number;
+  variance: number;
+  varianceSE: number;
+  skewness: number;
+  excessKurtosis: number;
+  skewnessSE: number;
+  excessKurtosisSE: number;
+  min: number;
+  max: number;
+}
+
+/** A deterministic sample of per-path values: the same paths whatever the worker count or shards. */
+export interface KeptSample {
+  /** Global path indices, ascending. */
+  pathIndex: number[];
+  /** values[gridIndex * 4 + measureIndex][i] for path pathIndex[i]. */
+  values: Float64Array[];
+}
+
+export interface SimulationResult {
+  suite: LoadedSuite;
+  /** Blocks in block order (all of them for a full run; a shard holds a subset). */
+  blocks: BlockStats[];
+  /** Total number of blocks of the run (a shard holds only some). */
+  blockCount: number;
+  results: ResultRecord[];
+  sample: KeptSample;
+  /** min/max per [gridIndex*4+measure] over all paths. */
+  min: number[];
+  max: number[];
+  wallSeconds: number;
+  workers: number;
+}

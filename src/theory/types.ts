@@ -1,0 +1,56 @@
+// What the prediction stage hands to the verdict stage and to `walkhull predict --json`.
+// The field names of MeasurePrediction are a contract (the prediction issue): add, never rename.
+
+import type { Measure } from "../suite/schema.js";
+
+export type LimitLaw = "normal" | "non-normal" | "degenerate" | "unknown";
+export type ConstantKind = "theorem" | "derived" | "estimate";
+
+export interface MeasurePrediction {
+  measure: Measure;
+  limitLaw: LimitLaw;
+  /** lim Var(X_n) / n^varianceScaling, null if none is known. */
+  varianceLimit: number | null;
+  /** The power p of n in Var(X_n)/n^p (1 for the perimeter with drift, 3 for area with drift...). */
+  varianceScaling: number;
+  /** lim E X_n / n^meanScaling, null if none is known. */
+  meanGrowth: number | null;
+  /** The power q of n in E X_n / n^q (1 with drift, 1/2 for the zero-drift perimeter, ...). */
+  meanScaling: number;
+  /** Exact (or numerically exact) finite-n means, keyed by n as a decimal string. */
+  exactMeans: Record<string, number>;
+  /** Absolute numerical error bound of each exact mean, same keys. */
+  exactMeansError: Record<string, number>;
+  /** Kind of varianceLimit: `estimate` constants are shown, never gate a verdict. */
+  varianceLimitKind: ConstantKind | null;
+  /** Kind of meanGrowth (same rule). */
+  meanGrowthKind: ConstantKind | null;
+  /** Hypotheses checked, with their outcome, and any caveats (near-ties, missing moments...). */
+  reasons: string[];
+  /** Citations of every formula used. */
+  sources: string[];
+  /** True when variance-based checks are not calibrated (e.g. steps without a 4th moment). */
+  varianceUncalibrated?: boolean;
+  /** Human-readable rows for the table: quantity, value, hypotheses, verdict, source. */
+  rows?: PredictionRow[];
+}
+
+export interface PredictionRow {
+  quantity: string;
+  value: string;
+  hypotheses: string;
+  verdict: string;
+  source: string;
+}
+
+export interface Prediction {
+  measures: MeasurePrediction[];
+}
+
+export interface PredictOptions {
+  /** Wall-time budget in seconds for numerical quadratures (k-walk Cauchy formula); default 20. */
+  budgetSeconds?: number;
+  /** Relative tolerance deciding ties and near-ties (default 1e-9 for ties, 1e-2 for near-ties). */
+  tieTolerance?: number;
+  nearTieTolerance?: number;
+}
