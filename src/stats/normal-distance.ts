@@ -1,0 +1,155 @@
+// An effect-size test of normality: the Kolmogorov distance from the sampled law F to the normal
+// FAMILY, d(F) = inf_{mu, sigma} sup_x |F(x) - Phi((x - mu)/sigma)|, with a confidence bound.
+//
+// Method: the Dvoretzky-Kiefer-Wolfowitz inequality with Massart's constant (Massart, Ann. Probab.
+// 18 (1990) 1269): P(sup |F_m - F| > e) <= 2 exp(-2 m e^2), valid for every F, discrete or not.
+// With D_min = min over (mu, sigma) of sup |F_m - Phi_{mu,sigma}| (Nelder-Mead from the moment fit,
+// Nelder & Mead, Comput. J. 7 (1965) 308), the triangle inequality gives, with probability >= 1-a,
+//   d(F) <= D_min + sqrt(ln(2/a) / (2m))                 (upper confidence bound, "DKW band")
+// and, under H0: d(F) <= tol, P(D_min - tol >= t) <= 2 exp(-2 m t^2), so
+//   p = min(1, 2 exp(-2 m (D_min - tol)^2)) for D_min > tol, else 1       (conservative p-value).
+// The minimiser is a local search: a larger D_min than the true minimum makes the bound wider
+// (safe) and the p-value smaller (not safe); the search starts at the moment fit and its result
+// never exceeds the moment-fit distance.
+// Ties (lattice laws): a law on a lattice of spacing h is at KS distance about (atom mass)/2 from
+// every continuous law, so the plain distance cannot certify "normal" for, e.g., vertex counts.
+// When more than half the sample values are tied, the sup is taken over the mid-points between
+// consecutive distinct values (the classical continuity correction: compare F at the atom v_k with
+// Phi at (v_k + v_{k+1})/2). The DKW bound holds at every point, so it also bounds this
+// restricted distance; the result says which distance was used.
+// Resolution floor: under exact normality E D_hat ~ 0.87/sqrt(m) is the scale below which
+// distances are not resolved (asymptotic Lilliefors quantiles are 0.886/sqrt(m) at 5%, Lilliefors
+// 1967; "0.87" is common practice for this project).
+// Cost O(m log m + 200 m). Example: 10^5 normal draws give D_min ~ 0.002, bound ~ 0.0073 at a = 0.01.
+
+import { normalCdf } from "./normal.js";
+import { ksDistanceSorted, meanSd, sortedCopy } from "./lilliefors.js";
+
+export interface NormalDistance {
+  /** Sample size m. */
+  size: number;
+  /** D with the moment fit (the Lilliefors statistic, exact with ties). */
+  momentFit: number;
+  /** Minimum-distance D over (mu, sigma), in the metric below. */
+  minimum: number;
+  /** "jumps": sup over all x; "midpoints": continuity-corrected (lattice data). */
+  metric: "jumps" | "midpoints";
+  /** Fraction of values equal to another value. */
+  tiedFraction: number;
+  /** DKW margin sqrt(ln(2/a)/(2m)). */
+  margin: number;
+  /** Upper (1 - a) confidence bound of d(F). */
+  upperBound: number;
+  /** p-value of H0: d(F) <= tol. */
+  pValue: number;
+  /** 0.87/sqrt(m). */
+  resolutionFloor: number;
+  /** Whether a perfectly normal law could pass: margin + resolution floor < tol. */
+  toleranceReachable: boolean;
+}
+
+function midpointDistance(sorted: Float64Array, mu: number, sigma: number): number {
+  const m = sorted.length;
+  const values: number[] = [];
+  const cum: number[] = [];
+  let i = 0;
+  while (i < m) {
+    let j = i;
+    while (j + 1 < m && sorted[j + 1] === sorted[i]) j++;
+    values.push(sorted[i]);
+    cum.push((j + 1) / m);
+    i = j + 1;
+  }
+  const u = values.length;
+  if (u < 2) return 1;
+  let d = 0;
+  for (let k = 0; k < u - 1; k++) {
+    const mid = 0.5 * (values[k] + values[k + 1]);
+    d = Math.max(d, Math.abs(cum[k] - normalCdf((mid - mu) / sigma)));
+  }
+  const lowEdge = values[0] - 0.5 * (values[1] - values[0]);
+  const highEdge = values[u - 1] + 0.5 * (values[u - 1] - values[u - 2]);
+  d = Math.max(d, normalCdf((lowEdge - mu) / sigma), 1 - normalCdf((highEdge - mu) / sigma));
+  return d;
+}
+
+function nelderMead2(f: (p: [number, number]) => number, start: [number, number], scale: [number, number], iters = 200): number {
+  let simplex: [number, number][] = [start, [start[0] + scale[0], start[1]], [start[0], start[1] + scale[1]]];
+  let values = simplex.map(f);
+  for (let it = 0; it < iters; it++) {
+    const order = [0, 1, 2].sort((a, b) => values[a] - values[b]);
+    simplex = order.map((k) => simplex[k]);
+    values = order.map((k) => values[k]);
+    const c: [number, number] = [(simplex[0][0] + simplex[1][0]) / 2, (simplex[0][1] + simplex[1][1]) / 2];
+    const w = simplex[2];
+    const refl: [number, number] = [2 * c[0] - w[0], 2 * c[1] - w[1]];
+    const fr = f(refl);
+    if (fr < values[0]) {
+      const exp: [number, number] = [3 * c[0] - 2 * w[0], 3 * c[1] - 2 * w[1]];
+      const fe = f(exp);
+      if (fe < fr) {
+        simplex[2] = exp;
+        values[2] = fe;
+      } else {
+        simplex[2] = refl;
+        values[2] = fr;
+      }
+    } else if (fr < values[1]) {
+      simplex[2] = refl;
+      values[2] = fr;
+    } else {
+      const con: [number, number] = [(c[0] + w[0]) / 2, (c[1] + w[1]) / 2];
+      const fc = f(con);
+      if (fc < values[2]) {
+        simplex[2] = con;
+        values[2] = fc;
+      } else {
+        for (const k of [1, 2]) {
+          simplex[k] = [(simplex[0][0] + simplex[k][0]) / 2, (simplex[0][1] + simplex[k][1]) / 2];
+          values[k] = f(simplex[k]);
+        }
+      }
+    }
+  }
+  return Math.min(...values);
+}
+
+/**
+ * Distance to the normal family with a (1 - a) upper bound and the p-value of H0: d(F) <= tol.
+ * `a` defaults to 0.01. Needs at least 5 values and a non-zero variance.
+ */
+export function normalDistance(x: ArrayLike<number>, tol: number, a = 0.01): NormalDistance {
+  if (!(tol > 0 && tol < 1)) throw new Error(`normalityTolerance: must be in (0, 1), got ${tol}`);
+  if (!(a > 0 && a < 1)) throw new Error(`alpha: must be in (0, 1), got ${a}`);
+  const s = sortedCopy(x);
+  const m = s.length;
+  if (m < 5) throw new Error(`sample: needs at least 5 values, got ${m}`);
+  const { mean, sd } = meanSd(s);
+  if (!(sd > 0)) throw new Error("sample: zero variance");
+  let distinct = 1;
+  for (let i = 1; i < m; i++) if (s[i] !== s[i - 1]) distinct++;
+  let tied = 0;
+  for (let i = 0; i < m; i++) if ((i > 0 && s[i] === s[i - 1]) || (i + 1 < m && s[i] === s[i + 1])) tied++;
+  const tiedFraction = tied / m;
+  const metric: "jumps" | "midpoints" = tiedFraction > 0.5 && distinct >= 2 ? "midpoints" : "jumps";
+  const dist = (mu: number, sigma: number) => (metric === "jumps" ? ksDistanceSorted(s, mu, sigma) : midpointDistance(s, mu, sigma));
+  const momentFit = ksDistanceSorted(s, mean, sd);
+  const start = dist(mean, sd);
+  const found = nelderMead2((p) => dist(mean + p[0] * sd, sd * Math.exp(p[1])), [0, 0], [0.05, 0.05]);
+  const minimum = Math.min(start, found);
+  const margin = Math.sqrt(Math.log(2 / a) / (2 * m));
+  const resolutionFloor = 0.87 / Math.sqrt(m);
+  const excess = minimum - tol;
+  return {
+    size: m,
+    momentFit,
+    minimum,
+    metric,
+    tiedFraction,
+    margin,
+    upperBound: minimum + margin,
+    pValue: excess > 0 ? Math.min(1, 2 * Math.exp(-2 * m * excess * excess)) : 1,
+    resolutionFloor,
+    toleranceReachable: margin + resolutionFloor < tol,
+  };
+}
