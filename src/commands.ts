@@ -1,21 +1,30 @@
 // Commands only: parse arguments, call the library, print, choose the exit code.
-// Exit codes: 0 ok, 1 a check failed, 2 bad input or usage.
+// Exit codes: 0 ok, 1 a check failed, 2 bad input or usage; a stopped run: 130 (SIGINT),
+143 (SIGTERM), 75 (--stop-after-blocks), each after writing a checkpoint.
 
 import { parseArgs, type ParseArgsConfig } from "node:util";
-import { existsSync, statSync } from "node:fs";
+import { existsSync, rmSync, statSync } from "node:fs";
 import { dirname } from "node:path";
 import { loadSuite, SuiteError } from "./suite/load.js";
 import type { LoadedSuite } from "./suite/schema.js";
 import { predict, renderPredictionTable } from "./theory/predict.js";
 import type { Prediction } from "./theory/types.js";
 import { evaluateChecks, renderChecks } from "./verdict/checks.js";
-import { simulateInProcess } from "./run/simulate.js";
+import { runSuite } from "./run/run.js";
+import { CheckpointError, type ShardSpec } from "./run/checkpoint.js";
+import { mergeShardFiles, MergeError, shardFile } from "./run/shards.js";
+import type { SimulationResult } from "./run/types.js";
+import { toolVersion } from "./version.js";
 import { buildReport, toJson, writeAtomic } from "./report/json.js";
 import { resultsTable } from "./report/table.js";
 
 export const EXIT_OK = 0;
 export const EXIT_CHECK_FAILED = 1;
 export const EXIT_BAD_INPUT = 2;
+/** A run stopped by --stop-after-blocks (checkpoint written; continue with --resume). */
+export const EXIT_STOPPED = 75;
+export const EXIT_SIGINT = 130;
+export const EXIT_SIGTERM = 143;
 
 class UsageError extends Error {}
 
@@ -26,15 +35,23 @@ Usage:
   walkhull predict <suite.json> [--json]   analytic predictions and hypothesis diagnosis
   walkhull help [command]                  this text
 
+  walkhull merge <shard.json>... --out F  combine shard results into one report (same bits as one run)
+
 run options:
   --paths N        override the suite's number of paths
   --seed S         override the suite's seed (non-negative integer)
   --out FILE       write the JSON report to FILE (atomically)
-  --kernel K       wasm (default) or twin (the plain-TypeScript twin; slow, for cross-checks)
-  --quiet          no progress output
+  --workers N      worker threads (default: all cores); results are identical for any N
+  --quiet          no live progress (a one-line summary is still printed on stderr)
   --no-checks      simulate and report moments only (no predictions, no verdicts)
+  --shard i/N      run only blocks i, i+N, ... and write a shard result to --out
+  --checkpoint F   checkpoint file (default: <out>.checkpoint, or .walkhull-checkpoint-<hash>.json)
+  --resume         continue from the checkpoint; ends with the same bits as an uninterrupted run
+  --stop-after-blocks K   stop after K blocks with a checkpoint (exit 75), for tests
+  --kernel K       wasm (default) or twin (the plain-TypeScript twin; slow, for cross-checks)
 
-Exit codes: 0 ok, 1 a check failed, 2 bad input or usage.
+Exit codes: 0 ok, 1 a check failed, 2 bad input or usage; a stopped run: 130 (SIGINT),
+143 (SIGTERM), 75 (--stop-after-blocks), each after writing a checkpoint.
 Suite format and examples: README.md; shipped suites: validation/.`;
 
 type Flags = Record<string, string | boolean | undefined>;
@@ -69,8 +86,48 @@ function onePositional(positionals: string[], cmd: string): string {
   return positionals[0];
 }
 
-function safePredict(suite: LoadedSuite): Prediction {
-  return predict(suite);
+function parseShard(v: string | boolean | undefined): ShardSpec | null {
+  if (v === undefined) return null;
+  const m = typeof v === "string" ? /^(\d+)\/(\d+)$/.exec(v.trim()) : null;
+  if (!m) throw new UsageError(`--shard: expected i/N (e.g. 0/4), got ${JSON.stringify(v)}`);
+  const index = Number(m[1]);
+  const count = Number(m[2]);
+  if (count < 1 || index >= count) throw new UsageError(`--shard: need 0 <= i < N (got ${index}/${count})`);
+  return { index, count };
+}
+
+interface FinishOptions {
+  out?: string;
+  quiet: boolean;
+  withChecks: boolean;
+  startedAt: Date;
+}
+
+/** Predictions, verdicts, the tables on stdout and the report file: shared by run and merge. */
+function finish(sim: SimulationResult, opts: FinishOptions): number {
+  const suite = sim.suite;
+  const prediction = opts.withChecks ? predict(suite) : undefined;
+  const verdicts = prediction ? evaluateChecks(sim, prediction) : undefined;
+  const report = buildReport(sim, opts.startedAt, { predictions: prediction, checks: verdicts?.checks, limits: verdicts?.limits });
+  report.exitCode = verdicts && verdicts.failed > 0 ? EXIT_CHECK_FAILED : EXIT_OK;
+  const scaling = (m: string) => prediction?.measures.find((p) => p.measure === m)?.varianceScaling ?? null;
+  const paths = sim.blocks.reduce((s, b) => s + b.paths, 0);
+  const lines = [
+    `${suite.title}  (seed ${suite.seed}, ${paths} paths, ${suite.walks.length} walk(s), ${sim.wallSeconds.toFixed(2)} s on ${sim.workers} worker(s))`,
+    "",
+    resultsTable(sim.results, scaling),
+  ];
+  if (verdicts) lines.push("", renderChecks(verdicts));
+  if (opts.out) writeAtomic(opts.out, toJson(report));
+  process.stdout.write(lines.join("\n") + "\n");
+  if (opts.out) process.stdout.write(`report: ${opts.out}\n`);
+  return report.exitCode;
+}
+
+function defaultCheckpoint(suite: LoadedSuite, out: string | undefined, shard: ShardSpec | null): string {
+  if (out) return `${out}.checkpoint`;
+  const tag = shard ? `-shard-${shard.index}-of-${shard.count}` : "";
+  return `.walkhull-checkpoint-${suite.hash.slice(0, 12)}${tag}.json`;
 }
 
 async function cmdRun(args: string[]): Promise<number> {
@@ -79,8 +136,13 @@ async function cmdRun(args: string[]): Promise<number> {
     seed: { type: "string" },
     out: { type: "string" },
     kernel: { type: "string" },
+    workers: { type: "string" },
     quiet: { type: "boolean" },
     "no-checks": { type: "boolean" },
+    shard: { type: "string" },
+    checkpoint: { type: "string" },
+    resume: { type: "boolean" },
+    "stop-after-blocks": { type: "string" },
   });
   const file = onePositional(positionals, "run");
   const out = flags.out as string | undefined;
@@ -89,36 +151,61 @@ async function cmdRun(args: string[]): Promise<number> {
   if (kernel !== "wasm" && kernel !== "twin") throw new UsageError(`--kernel: expected wasm or twin, got ${kernel}`);
   const paths = intFlag(flags, "paths");
   if (paths === 0) throw new UsageError("--paths: must be >= 1");
+  const workers = intFlag(flags, "workers");
+  if (workers === 0) throw new UsageError("--workers: must be >= 1");
+  const shard = parseShard(flags.shard);
+  if (shard && !out) throw new UsageError("--shard: give --out FILE for the shard result (merge them with walkhull merge)");
+  const stopAfter = intFlag(flags, "stop-after-blocks");
   const suite = loadSuite(file, { paths, seed: intFlag(flags, "seed") });
+  const checkpoint = (flags.checkpoint as string | undefined) ?? defaultCheckpoint(suite, out, shard);
+  checkOutPath(checkpoint, "checkpoint");
+  const quiet = Boolean(flags.quiet);
   const startedAt = new Date();
-  const withChecks = !flags["no-checks"];
-  const prediction = withChecks ? safePredict(suite) : undefined;
-  const quiet = Boolean(flags.quiet) || !process.stderr.isTTY;
-  const sim = simulateInProcess(suite, {
-    kernel,
-    onBlock: quiet ? undefined : (done, total) => process.stderr.write(`\r${done}/${total} blocks`),
-  });
-  if (!quiet) process.stderr.write("\n");
-  const verdicts = prediction ? evaluateChecks(sim, prediction) : undefined;
-  const report = buildReport(sim, startedAt, {
-    predictions: prediction,
-    checks: verdicts?.checks,
-    limits: verdicts?.limits,
-  });
-  const failed = verdicts ? verdicts.failed > 0 : false;
-  report.exitCode = failed ? EXIT_CHECK_FAILED : EXIT_OK;
+  let outcome;
+  try {
+    outcome = await runSuite(suite, {
+      workers,
+      kernel,
+      shard,
+      checkpoint,
+      resume: Boolean(flags.resume),
+      stopAfterBlocks: stopAfter,
+      progress: !quiet && Boolean(process.stderr.isTTY),
+      handleSignals: true,
+    });
+  } catch (e) {
+    if (e instanceof CheckpointError) throw new UsageError(e.message);
+    throw e;
+  }
+  if (outcome.status === "stopped") {
+    return outcome.reason === "SIGINT" ? EXIT_SIGINT : outcome.reason === "SIGTERM" ? EXIT_SIGTERM : EXIT_STOPPED;
+  }
+  const { sim, collector } = outcome;
+  let code: number;
+  if (shard) {
+    writeAtomic(out!, toJson(shardFile(sim, collector, shard, startedAt)));
+    process.stdout.write(`shard ${shard.index}/${shard.count}: ${sim.blocks.length} blocks, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths -> ${out}\n`);
+    code = EXIT_OK;
+  } else {
+    code = finish(sim, { out, quiet, withChecks: !flags["no-checks"], startedAt });
+  }
+  rmSync(checkpoint, { force: true });
+  return code;
+}
 
-  const scaling = (m: string) => prediction?.measures.find((p) => p.measure === m)?.varianceScaling ?? null;
-  const lines = [
-    `${suite.title}  (seed ${suite.seed}, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths, ${suite.walks.length} walk(s), ${sim.wallSeconds.toFixed(2)} s)`,
-    "",
-    resultsTable(sim.results, scaling),
-  ];
-  if (verdicts) lines.push("", renderChecks(verdicts));
-  if (out) writeAtomic(out, toJson(report));
-  process.stdout.write(lines.join("\n") + "\n");
-  if (out) process.stdout.write(`report: ${out}\n`);
-  return report.exitCode;
+async function cmdMerge(args: string[]): Promise<number> {
+  const { flags, positionals } = parse(args, { out: { type: "string" }, quiet: { type: "boolean" }, "no-checks": { type: "boolean" } });
+  if (positionals.length === 0) throw new UsageError("merge: give the shard result files (walkhull merge a.json b.json ... --out report.json)");
+  const out = flags.out as string | undefined;
+  checkOutPath(out, "out");
+  let sim: SimulationResult;
+  try {
+    sim = mergeShardFiles(positionals, toolVersion());
+  } catch (e) {
+    if (e instanceof MergeError) throw new UsageError(e.message);
+    throw e;
+  }
+  return finish(sim, { out, quiet: Boolean(flags.quiet), withChecks: !flags["no-checks"], startedAt: new Date() });
 }
 
 async function cmdPredict(args: string[]): Promise<number> {
@@ -137,6 +224,8 @@ export async function main(argv: string[]): Promise<number> {
         return await cmdRun(rest);
       case "predict":
         return await cmdPredict(rest);
+      case "merge":
+        return await cmdMerge(rest);
       case undefined:
       case "help":
       case "--help":
@@ -144,7 +233,7 @@ export async function main(argv: string[]): Promise<number> {
         process.stdout.write(HELP + "\n");
         return cmd === undefined ? EXIT_BAD_INPUT : EXIT_OK;
       default:
-        throw new UsageError(`unknown command ${JSON.stringify(cmd)} (commands: run, predict, help)`);
+        throw new UsageError(`unknown command ${JSON.stringify(cmd)} (commands: run, predict, merge, help)`);
     }
   } catch (e) {
     if (e instanceof SuiteError || e instanceof UsageError) {

@@ -16,16 +16,17 @@ export { evaluateChecks as check, renderChecks } from "./verdict/checks.js";
 export { buildReport, toJson } from "./report/json.js";
 export type { Report } from "./report/json.js";
 
+export { runSuite, shardBlocks } from "./run/run.js";
+export type { RunOptions, RunOutcome } from "./run/run.js";
+export { mergeShardFiles } from "./run/shards.js";
+
 import type { LoadedSuite } from "./suite/schema.js";
 import type { SimulationResult } from "./run/types.js";
-import { simulateInProcess, type SimulateOptions } from "./run/simulate.js";
+import { runSuite, type RunOptions } from "./run/run.js";
 
-export interface SimulateApiOptions extends SimulateOptions {
-  /** Worker threads (default 1 = this thread). */
-  workers?: number;
-}
-
-/** Simulate a loaded suite; results are bitwise the same for any worker count. */
-export async function simulate(suite: LoadedSuite, opts: SimulateApiOptions = {}): Promise<SimulationResult> {
-  return simulateInProcess(suite, opts);
+/** Simulate a loaded suite (all blocks); results are bitwise the same for any worker count. */
+export async function simulate(suite: LoadedSuite, opts: RunOptions = {}): Promise<SimulationResult> {
+  const outcome = await runSuite(suite, { checkpoint: null, ...opts });
+  if (outcome.status !== "done") throw new Error(`simulation stopped (${outcome.reason})`);
+  return outcome.sim;
 }

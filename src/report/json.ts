@@ -5,7 +5,7 @@ import { readFileSync, renameSync, writeFileSync, mkdirSync } from "node:fs";
 import { cpus } from "node:os";
 import { dirname } from "node:path";
 import { execFileSync } from "node:child_process";
-import { fileURLToPath } from "node:url";
+import { PROJECT_ROOT, toolVersion } from "../version.js";
 import type { SimulationResult, BlockStats, ResultRecord } from "../run/types.js";
 import type { Prediction } from "../theory/types.js";
 import type { LoadedSuite } from "../suite/schema.js";
@@ -51,15 +51,7 @@ export interface Report {
   exitCode?: number;
 }
 
-const ROOT = fileURLToPath(new URL("../../", import.meta.url));
-
-export function toolVersion(): string {
-  try {
-    return JSON.parse(readFileSync(ROOT + "package.json", "utf8")).version as string;
-  } catch {
-    return "unknown";
-  }
-}
+const ROOT = PROJECT_ROOT;
 
 function gitCommit(): string | null {
   try {

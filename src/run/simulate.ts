@@ -58,8 +58,20 @@ export class BlockCollector {
     return this.kept;
   }
 
-  restoreKept(k: KeptCandidates): void {
-    this.kept = k;
+  /** Start from a checkpoint's state (blocks done, kept candidates, extremes). */
+  restore(state: { blocks: BlockStats[]; kept: KeptCandidates; min: number[]; max: number[] }): void {
+    for (const b of state.blocks) {
+      if (this.blocks.has(b.block)) throw new Error(`block ${b.block} restored twice`);
+      this.blocks.set(b.block, b);
+    }
+    this.kept = state.kept;
+    this.min = [...state.min];
+    this.max = [...state.max];
+  }
+
+  /** The state to write into a checkpoint or a shard file. */
+  snapshot(): { blocks: BlockStats[]; kept: KeptCandidates; min: number[]; max: number[] } {
+    return { blocks: [...this.blocks.values()].sort((a, b) => a.block - b.block), kept: this.kept, min: this.min, max: this.max };
   }
 
   result(wallSeconds: number, workers: number): SimulationResult {

@@ -1,0 +1,113 @@
+// Checkpoints: the blocks done and their partial results, written atomically (temp file + rename),
+// so a run can resume and end with the same bits as an uninterrupted one.
+
+import { existsSync, readFileSync, renameSync, writeFileSync } from "node:fs";
+import type { LoadedSuite } from "../suite/schema.js";
+import { MEASURES_PER_RECORD } from "../engine/types.js";
+import type { KeptCandidates } from "./blocks.js";
+import { blockFromJson, blockToJson, keptFromJson, keptToJson, type BlockStatsJson, type KeptJson } from "./state.js";
+import type { BlockStats } from "./types.js";
+
+export const CHECKPOINT_FORMAT = "walkhull-checkpoint/1";
+
+export interface ShardSpec {
+  index: number;
+  count: number;
+}
+
+interface CheckpointJson {
+  format: string;
+  version: string;
+  suiteHash: string;
+  seed: number;
+  paths: number;
+  blockCount: number;
+  shard: ShardSpec | null;
+  blocks: BlockStatsJson[];
+  kept: KeptJson;
+  min: (number | null)[];
+  max: (number | null)[];
+  writtenAt: string;
+}
+
+export interface CheckpointState {
+  blocks: BlockStats[];
+  kept: KeptCandidates;
+  min: number[];
+  max: number[];
+}
+
+export class CheckpointError extends Error {}
+
+export function writeCheckpoint(
+  path: string,
+  suite: LoadedSuite,
+  version: string,
+  blockCount: number,
+  shard: ShardSpec | null,
+  state: CheckpointState,
+): void {
+  const j: CheckpointJson = {
+    format: CHECKPOINT_FORMAT,
+    version,
+    suiteHash: suite.hash,
+    seed: suite.seed,
+    paths: suite.paths,
+    blockCount,
+    shard,
+    blocks: state.blocks.map(blockToJson),
+    kept: keptToJson(state.kept),
+    min: state.min.map((x) => (Number.isFinite(x) ? x : null)),
+    max: state.max.map((x) => (Number.isFinite(x) ? x : null)),
+    writtenAt: new Date().toISOString(),
+  };
+  const tmp = `${path}.tmp-${process.pid}`;
+  writeFileSync(tmp, JSON.stringify(j));
+  renameSync(tmp, path);
+}
+
+/** Read a checkpoint and refuse it unless it belongs to this suite, seed, version and shard. */
+export function readCheckpoint(
+  path: string,
+  suite: LoadedSuite,
+  version: string,
+  blockCount: number,
+  shard: ShardSpec | null,
+): CheckpointState {
+  if (!existsSync(path)) throw new CheckpointError(`--resume: no checkpoint at ${path}`);
+  let j: CheckpointJson;
+  try {
+    j = JSON.parse(readFileSync(path, "utf8"));
+  } catch (e) {
+    throw new CheckpointError(`checkpoint ${path} is corrupted or partial (not valid JSON: ${(e as Error).message}); delete it to start afresh`);
+  }
+  const refuse = (why: string) => new CheckpointError(`checkpoint ${path} ${why}; refusing to resume (delete it to start afresh)`);
+  if (!j || j.format !== CHECKPOINT_FORMAT) throw refuse(`is not a walkhull checkpoint (format ${JSON.stringify(j?.format)})`);
+  if (j.version !== version) throw refuse(`was written by walkhull ${j.version}, this is ${version}`);
+  if (j.seed !== suite.seed) throw refuse(`is for seed ${j.seed}, this run has seed ${suite.seed}`);
+  if (j.suiteHash !== suite.hash) throw refuse(`is for another suite (hash ${String(j.suiteHash).slice(0, 12)}, this suite ${suite.hash.slice(0, 12)})`);
+  if (j.blockCount !== blockCount) throw refuse(`has ${j.blockCount} blocks, this run ${blockCount}`);
+  const sameShard = (j.shard === null && shard === null) || (j.shard && shard && j.shard.index === shard.index && j.shard.count === shard.count);
+  if (!sameShard) throw refuse(`is for shard ${j.shard ? `${j.shard.index}/${j.shard.count}` : "none"}, this run ${shard ? `${shard.index}/${shard.count}` : "none"}`);
+  const dim = suite.n.length * MEASURES_PER_RECORD;
+  try {
+    if (!Array.isArray(j.blocks) || !Array.isArray(j.min) || !Array.isArray(j.max) || j.min.length !== dim || j.max.length !== dim) {
+      throw new Error("missing blocks or extremes");
+    }
+    const blocks = j.blocks.map((b) => blockFromJson(b, `checkpoint ${path}`));
+    const seen = new Set<number>();
+    for (const b of blocks) {
+      if (b.block < 0 || b.block >= blockCount || seen.has(b.block)) throw new Error(`bad or repeated block index ${b.block}`);
+      if (b.moments.length !== dim) throw new Error(`block ${b.block} has ${b.moments.length} moment records, expected ${dim}`);
+      seen.add(b.block);
+    }
+    return {
+      blocks,
+      kept: keptFromJson(j.kept, dim, `checkpoint ${path}`),
+      min: j.min.map((x) => (x === null ? Infinity : x)),
+      max: j.max.map((x) => (x === null ? -Infinity : x)),
+    };
+  } catch (e) {
+    throw new CheckpointError(`checkpoint ${path} is corrupted or partial (${(e as Error).message}); delete it to start afresh`);
+  }
+}

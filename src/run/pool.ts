@@ -1,0 +1,138 @@
+// Runs blocks of a suite on this thread or on a pool of worker threads. Blocks are handed out
+// dynamically; results are merged by block index, so the bits never depend on the worker count.
+// A worker that fails or dies is reported and its block re-run on a fresh worker.
+
+import { Worker } from "node:worker_threads";
+import { availableParallelism } from "node:os";
+import { loadWasmModuleSync } from "../engine/wasm.js";
+import type { LoadedSuite } from "../suite/schema.js";
+import { createKernel, runOneBlock, type BlockCollector, type KernelKind } from "./simulate.js";
+import type { BlockOutput } from "./blocks.js";
+
+/** The worker script is always the compiled one (tsx does not reach worker_threads on Node 20). */
+const WORKER_URL = new URL("../../dist/run/worker.js", import.meta.url);
+const MAX_TRIES_PER_BLOCK = 3;
+
+export function defaultWorkers(): number {
+  return Math.max(1, availableParallelism());
+}
+
+export interface PoolOptions {
+  workers: number;
+  kernel: KernelKind;
+  /** Blocks still to run, in the order they are handed out. */
+  blocks: number[];
+  collector: BlockCollector;
+  /** Called after each block is merged. */
+  onBlock?: (block: number, out: BlockOutput) => void;
+  /** Checked between blocks: when true, no new block is started and in-flight ones are dropped. */
+  shouldStop?: () => boolean;
+  /** Reported problems (a worker failed and its block is re-run...). */
+  onWarning?: (message: string) => void;
+  /** Testing hook: the first worker throws when it starts this block (its block must be re-run). */
+  failOnceAtBlock?: number;
+}
+
+export interface PoolOutcome {
+  stopped: boolean;
+  blocksRun: number;
+}
+
+export async function runBlocks(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcome> {
+  if (opts.blocks.length === 0) return { stopped: false, blocksRun: 0 };
+  if (opts.workers <= 1 && opts.failOnceAtBlock === undefined) return runHere(suite, opts);
+  return runOnWorkers(suite, opts);
+}
+
+async function runHere(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcome> {
+  const kernel = createKernel(suite, opts.kernel);
+  let blocksRun = 0;
+  for (const b of opts.blocks) {
+    // Yield to the event loop between blocks so that signals and timers are served.
+    await new Promise((r) => setImmediate(r));
+    if (opts.shouldStop?.()) return { stopped: true, blocksRun };
+    const out = runOneBlock(kernel, suite, b);
+    opts.collector.add(out);
+    blocksRun++;
+    opts.onBlock?.(b, out);
+  }
+  return { stopped: false, blocksRun };
+}
+
+function runOnWorkers(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcome> {
+  const module = opts.kernel === "wasm" ? loadWasmModuleSync() : undefined;
+  const queue = [...opts.blocks];
+  const tries = new Map<number, number>();
+  const live = new Set<Worker>();
+  let blocksRun = 0;
+  let finished = false;
+  let failArmed = opts.failOnceAtBlock !== undefined;
+
+  return new Promise<PoolOutcome>((resolve, reject) => {
+    const finish = (outcome: PoolOutcome | Error) => {
+      if (finished) return;
+      finished = true;
+      for (const w of live) void w.terminate();
+      live.clear();
+      if (outcome instanceof Error) reject(outcome);
+      else resolve(outcome);
+    };
+
+    const spawn = () => {
+      const failAtBlock = failArmed ? opts.failOnceAtBlock : undefined;
+      failArmed = false;
+      const worker = new Worker(WORKER_URL, { workerData: { suite, kernel: opts.kernel, module, failAtBlock } });
+      live.add(worker);
+      let current: number | null = null;
+
+      const next = () => {
+        if (finished) return;
+        if (opts.shouldStop?.()) return finish({ stopped: true, blocksRun });
+        const b = queue.shift();
+        if (b === undefined) {
+          current = null;
+          live.delete(worker);
+          void worker.terminate();
+          if (live.size === 0) finish({ stopped: false, blocksRun });
+          return;
+        }
+        current = b;
+        worker.postMessage({ block: b });
+      };
+
+      const lost = (why: string) => {
+        if (finished || !live.has(worker)) return;
+        live.delete(worker);
+        void worker.terminate();
+        if (current !== null) {
+          const t = (tries.get(current) ?? 0) + 1;
+          tries.set(current, t);
+          if (t >= MAX_TRIES_PER_BLOCK) return finish(new Error(`block ${current} failed ${t} times; last: ${why}`));
+          opts.onWarning?.(`worker failed on block ${current} (${why}); re-running the block on a new worker`);
+          queue.unshift(current);
+          current = null;
+        }
+        spawn();
+      };
+
+      worker.on("message", (msg: { block: number; out?: BlockOutput; error?: string }) => {
+        if (finished) return;
+        if (msg.error !== undefined || !msg.out) return lost(msg.error ?? "no output");
+        try {
+          opts.collector.add(msg.out);
+        } catch (e) {
+          return finish(e as Error);
+        }
+        blocksRun++;
+        opts.onBlock?.(msg.block, msg.out);
+        next();
+      });
+      worker.on("error", (e) => lost(e.message));
+      worker.on("exit", (code) => lost(`exited with code ${code}`));
+      worker.once("online", next);
+    };
+
+    const n = Math.min(opts.workers, queue.length);
+    for (let i = 0; i < n; i++) spawn();
+  });
+}

@@ -1,0 +1,106 @@
+// One suite end to end with workers, progress, checkpoints, signals and shards.
+
+import { blockCount } from "../suite/load.js";
+import type { LoadedSuite } from "../suite/schema.js";
+import { toolVersion } from "../version.js";
+import { readCheckpoint, writeCheckpoint, type ShardSpec } from "./checkpoint.js";
+import { defaultWorkers, runBlocks } from "./pool.js";
+import { Progress } from "./progress.js";
+import { BlockCollector, type KernelKind } from "./simulate.js";
+import type { SimulationResult } from "./types.js";
+
+export interface RunOptions {
+  workers?: number;
+  kernel?: KernelKind;
+  shard?: ShardSpec | null;
+  /** Checkpoint file; null disables checkpoints. */
+  checkpoint?: string | null;
+  resume?: boolean;
+  checkpointEverySeconds?: number;
+  /** Deterministic stop for tests: stop (with a checkpoint) once this many blocks are merged. */
+  stopAfterBlocks?: number;
+  /** Live progress on stderr (the caller decides: a TTY and not --quiet). */
+  progress?: boolean;
+  /** Install SIGINT/SIGTERM handlers that checkpoint and stop. */
+  handleSignals?: boolean;
+  onWarning?: (message: string) => void;
+  failOnceAtBlock?: number;
+  /** Where progress and the final summary go (default stderr). */
+  log?: (text: string) => void;
+}
+
+export type RunOutcome =
+  | { status: "done"; sim: SimulationResult; collector: BlockCollector }
+  | { status: "stopped"; reason: "SIGINT" | "SIGTERM" | "stop-after-blocks"; blocksDone: number; checkpoint: string | null };
+
+/** The blocks a run (or shard i/N: blocks i, i+N, ...) is responsible for. */
+export function shardBlocks(total: number, shard: ShardSpec | null | undefined): number[] {
+  const all = Array.from({ length: total }, (_, b) => b);
+  return shard ? all.filter((b) => b % shard.count === shard.index) : all;
+}
+
+export async function runSuite(suite: LoadedSuite, opts: RunOptions = {}): Promise<RunOutcome> {
+  const t0 = performance.now();
+  const total = blockCount(suite);
+  const shard = opts.shard ?? null;
+  const version = toolVersion();
+  const collector = new BlockCollector(suite);
+  const checkpoint = opts.checkpoint ?? null;
+  if (opts.resume) {
+    if (!checkpoint) throw new Error("--resume needs a checkpoint file");
+    collector.restore(readCheckpoint(checkpoint, suite, version, total, shard));
+  }
+  const mine = shardBlocks(total, shard);
+  const todo = mine.filter((b) => !collector.blocks.has(b));
+  const workers = Math.max(1, Math.min(opts.workers ?? defaultWorkers(), Math.max(todo.length, 1)));
+  const log = opts.log ?? ((t: string) => process.stderr.write(t));
+  const progress = new Progress(suite.title, suite.paths, mine.length, collector, opts.progress ?? false, log);
+
+  let stopReason: "SIGINT" | "SIGTERM" | "stop-after-blocks" | null = null;
+  const save = () => {
+    if (checkpoint) writeCheckpoint(checkpoint, suite, version, total, shard, collector.snapshot());
+  };
+  const onSignal = (sig: "SIGINT" | "SIGTERM") => () => {
+    stopReason ??= sig;
+  };
+  const handlers = { SIGINT: onSignal("SIGINT"), SIGTERM: onSignal("SIGTERM") };
+  if (opts.handleSignals) {
+    process.on("SIGINT", handlers.SIGINT);
+    process.on("SIGTERM", handlers.SIGTERM);
+  }
+  let lastSave = performance.now();
+  const every = (opts.checkpointEverySeconds ?? 5) * 1000;
+  try {
+    const outcome = await runBlocks(suite, {
+      workers,
+      kernel: opts.kernel ?? "wasm",
+      blocks: todo,
+      collector,
+      failOnceAtBlock: opts.failOnceAtBlock,
+      onWarning: opts.onWarning ?? ((m) => log(`walkhull: warning: ${m}\n`)),
+      shouldStop: () => stopReason !== null,
+      onBlock: () => {
+        progress.update();
+        if (opts.stopAfterBlocks !== undefined && collector.blocks.size >= opts.stopAfterBlocks) stopReason ??= "stop-after-blocks";
+        if (checkpoint && performance.now() - lastSave >= every) {
+          save();
+          lastSave = performance.now();
+        }
+      },
+    });
+    if (outcome.stopped || (stopReason !== null && collector.blocks.size < mine.length)) {
+      save();
+      progress.finish(`stopped (${stopReason}) after ${collector.blocks.size}/${mine.length} blocks${checkpoint ? `; checkpoint ${checkpoint}` : ""}`);
+      return { status: "stopped", reason: stopReason ?? "SIGINT", blocksDone: collector.blocks.size, checkpoint };
+    }
+  } finally {
+    if (opts.handleSignals) {
+      process.off("SIGINT", handlers.SIGINT);
+      process.off("SIGTERM", handlers.SIGTERM);
+    }
+  }
+  const wall = (performance.now() - t0) / 1000;
+  const sim = collector.result(wall, workers);
+  progress.finish(`done: ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths in ${wall.toFixed(2)} s on ${workers} worker(s)`);
+  return { status: "done", sim, collector };
+}

@@ -1,0 +1,79 @@
+// Serialisation of partial run state (checkpoints and shard files): exact round trips.
+// Doubles survive JSON exactly (shortest round-trip form); the large kept-sample columns are
+// stored as base64 of their IEEE-754 bytes to stay compact.
+
+import type { CoMomentState, MomentState } from "../stats/types.js";
+import type { KeptCandidates } from "./blocks.js";
+import type { BlockStats } from "./types.js";
+
+export interface BlockStatsJson {
+  block: number;
+  firstPath: number;
+  paths: number;
+  moments: MomentState[];
+  comoments: { count: number; dim: number; mean: number[]; c: number[] };
+}
+
+export interface KeptJson {
+  count: number;
+  pathIndex: string;
+  hash: string;
+  values: string;
+}
+
+export function blockToJson(b: BlockStats): BlockStatsJson {
+  return {
+    block: b.block,
+    firstPath: b.firstPath,
+    paths: b.paths,
+    moments: b.moments.map((m) => ({ count: m.count, mean: m.mean, m2: m.m2, m3: m.m3, m4: m.m4 })),
+    comoments: { count: b.comoments.count, dim: b.comoments.dim, mean: Array.from(b.comoments.mean), c: Array.from(b.comoments.c) },
+  };
+}
+
+export function blockFromJson(j: BlockStatsJson, where: string): BlockStats {
+  const bad = (what: string) => new Error(`${where}: ${what}`);
+  if (!j || typeof j !== "object") throw bad("block record is not an object");
+  for (const k of ["block", "firstPath", "paths"] as const) {
+    if (!Number.isInteger(j[k])) throw bad(`block record lacks an integer \`${k}\``);
+  }
+  if (!Array.isArray(j.moments)) throw bad(`block ${j.block} lacks its moments`);
+  const moments = j.moments.map((m) => {
+    for (const k of ["count", "mean", "m2", "m3", "m4"] as const) {
+      if (typeof m?.[k] !== "number") throw bad(`block ${j.block}: a moment record lacks \`${k}\``);
+    }
+    return { count: m.count, mean: m.mean, m2: m.m2, m3: m.m3, m4: m.m4 };
+  });
+  const c = j.comoments;
+  if (!c || !Array.isArray(c.mean) || !Array.isArray(c.c) || c.c.length !== c.dim * c.dim || c.mean.length !== c.dim) {
+    throw bad(`block ${j.block}: malformed co-moments`);
+  }
+  const comoments: CoMomentState = { count: c.count, dim: c.dim, mean: Float64Array.from(c.mean), c: Float64Array.from(c.c) };
+  return { block: j.block, firstPath: j.firstPath, paths: j.paths, moments, comoments };
+}
+
+function f64ToB64(a: ArrayLike<number>): string {
+  return Buffer.from(Float64Array.from(a).buffer).toString("base64");
+}
+function b64ToF64(s: string, where: string): number[] {
+  const buf = Buffer.from(s, "base64");
+  if (buf.length % 8 !== 0) throw new Error(`${where}: kept-sample column has a truncated length`);
+  const copy = new Uint8Array(buf.length);
+  copy.set(buf);
+  return Array.from(new Float64Array(copy.buffer));
+}
+
+export function keptToJson(k: KeptCandidates): KeptJson {
+  return { count: k.pathIndex.length, pathIndex: f64ToB64(k.pathIndex), hash: f64ToB64(k.hash), values: f64ToB64(k.values) };
+}
+
+export function keptFromJson(j: KeptJson, dim: number, where: string): KeptCandidates {
+  if (!j || typeof j.pathIndex !== "string" || typeof j.hash !== "string" || typeof j.values !== "string") {
+    throw new Error(`${where}: kept sample missing or malformed`);
+  }
+  const k = { pathIndex: b64ToF64(j.pathIndex, where), hash: b64ToF64(j.hash, where), values: b64ToF64(j.values, where) };
+  if (k.pathIndex.length !== j.count || k.hash.length !== j.count || k.values.length !== j.count * dim) {
+    throw new Error(`${where}: kept sample sizes do not match (${j.count} records of ${dim} values expected)`);
+  }
+  return k;
+}
