@@ -217,7 +217,7 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
     }
     if (!found) betaInterval[dir < 0 ? 0 : 1] = dir < 0 ? betaMin : betaMax;
   }
-  const profS2 = (s: number) => minimise1d((b) => chi2At(n, y, w, b, s).chi2, betaMin, betaMax, 0.02).fx - chi2Min - q;
+  const profS2 = (s: number) => minimise1d((b) => chi2At(n, y, w, b, s).chi2, betaMin, betaMax, 0.01).fx - chi2Min - q;
   const s2Interval = rootsAround(profS2, at.s2, at.s2SE);
   const df = m - 3;
   return {
@@ -234,6 +234,22 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
     pValue: df > 0 ? chiSquareSf(chi2Min, df) : NaN,
     betaAtBound: Math.abs(best.x - betaMin) < 1e-3 || Math.abs(best.x - betaMax) < 1e-3,
   };
+}
+
+/**
+ * Profile-likelihood-ratio test of s2 = value in the model with beta profiled over
+ * [betaMin, betaMax]: statistic chi2_prof(value) - chi2_min, p-value from chi-square(1)
+ * (Wilks; the test that inverts to the interval of fitPowerLawProfile).
+ */
+export function profileTest(n: ArrayLike<number>, y: ArrayLike<number>, cov: ArrayLike<number>, value: number, opts: PowerLawOptions = {}): { statistic: number; pValue: number } {
+  const m = validate(n, y, cov);
+  const betaMin = opts.betaMin ?? 0.1;
+  const betaMax = opts.betaMax ?? 2;
+  const w = weightMatrix(cov, m, opts.blocks);
+  const chi2Min = minimise1d((b) => chi2At(n, y, w, b).chi2, betaMin, betaMax).fx;
+  const at = minimise1d((b) => chi2At(n, y, w, b, value).chi2, betaMin, betaMax).fx;
+  const statistic = Math.max(0, at - chi2Min);
+  return { statistic, pValue: chiSquareSf(statistic, 1) };
 }
 
 /** Fits y = s2 + c n^-beta with beta fixed (an assumption). Needs m >= 2 points. */

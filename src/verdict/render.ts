@@ -1,0 +1,51 @@
+// Plain-text rendering of a verdict report: one row per check, then the estimated limits.
+
+import type { VerdictReport } from "./types.js";
+
+const num = (x: number | null | undefined): string =>
+  x === null || x === undefined || Number.isNaN(x) ? "-" : !Number.isFinite(x) ? (x > 0 ? "inf" : "-inf") : Number(x.toPrecision(6)).toString();
+const pv = (p: number | null): string => (p === null || Number.isNaN(p) ? "-" : p < 1e-4 ? p.toExponential(1) : p.toFixed(4));
+
+function table(header: string[], rows: string[][]): string {
+  const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c].length)));
+  const line = (r: string[]) => r.map((x, c) => x.padEnd(widths[c])).join("  ").trimEnd();
+  return [line(header), line(widths.map((w) => "-".repeat(w))), ...rows.map(line)].join("\n");
+}
+
+export function renderChecks(r: VerdictReport): string {
+  const rows = r.checks.map((c) => [
+    c.id,
+    c.verdict,
+    c.gated ? "yes" : "no",
+    num(c.estimate),
+    typeof c.expected === "number" ? num(c.expected) : (c.expected ?? "-"),
+    c.ci ? `[${num(c.ci[0])}, ${num(c.ci[1])}]` : "-",
+    pv(c.pValue),
+    pv(c.adjustedPValue),
+  ]);
+  const out: string[] = [];
+  out.push(`Checks (Holm over gated checks at alpha = ${r.alpha}; ${r.failed} failed)`);
+  out.push(table(["check", "verdict", "gated", "estimate", "expected", "95% CI", "p", "p (Holm)"], rows));
+  out.push("");
+  for (const c of r.checks) out.push(`- ${c.id} [${c.source}]: ${c.detail}`);
+  if (r.limits.length) {
+    out.push("");
+    out.push("Estimated limits");
+    out.push(
+      table(
+        ["measure", "quantity", "method", "estimate", "95% CI", "beta", "misfit p"],
+        r.limits.map((l) => [
+          l.measure,
+          l.quantity === "varianceLimit" ? `Var/n^${l.scaling}` : `mean/n^${l.scaling}`,
+          l.method,
+          num(l.estimate),
+          l.ci ? `[${num(l.ci[0])}, ${num(l.ci[1])}]` : "-",
+          l.beta === null ? "-" : l.betaInterval ? `${num(l.beta)} [${num(l.betaInterval[0])}, ${num(l.betaInterval[1])}]` : `${num(l.beta)} (assumed)`,
+          pv(l.misfitPValue),
+        ]),
+      ),
+    );
+    for (const l of r.limits) out.push(`- ${l.measure} ${l.quantity}: ${l.note}`);
+  }
+  return out.join("\n");
+}

@@ -1,0 +1,67 @@
+// What the verdict stage hands to the report stage. Field names of Check are a contract read by
+// users' scripts: add, never rename.
+
+import type { Measure } from "../suite/schema.js";
+
+export type CheckKind = "mean" | "varianceLimit" | "meanGrowth" | "limitLaw";
+export type Verdict = "pass" | "fail" | "inconclusive" | "confirmed" | "not-yet-visible";
+
+export interface Check {
+  /** Stable id, e.g. "perimeter.varianceLimit.prediction", "area.mean.n100.claims[3]". */
+  id: string;
+  measure: Measure;
+  /** The step count of a finite-n check, null for limits and laws. */
+  n: number | null;
+  kind: CheckKind;
+  /** "claim" or "claim: <label>" for user claims, "prediction: <citations>" for built-in ones. */
+  source: string;
+  /** The simulated value compared (a mean, an extrapolated limit, a KS distance). */
+  estimate: number | null;
+  /** The claimed or predicted value ("normal", "non-normal" for laws; "<= tol" as a string for distances). */
+  expected: number | string | null;
+  /** The test statistic (z, likelihood-ratio chi-square, or distance), null when none. */
+  statistic: number | null;
+  /** Unadjusted p-value of the gated test, null when none. */
+  pValue: number | null;
+  /** Holm-adjusted p-value (gated checks only). */
+  adjustedPValue: number | null;
+  /** Confidence interval of the estimate (level in `detail`), null when none. */
+  ci: [number, number] | null;
+  verdict: Verdict;
+  /** Whether the check takes part in the Holm family (can fail). */
+  gated: boolean;
+  /** One or two sentences: the method, the assumptions, why this verdict. */
+  detail: string;
+}
+
+/** A limit estimated from the grid whatever was claimed (shown with its interval). */
+export interface LimitEstimate {
+  measure: Measure;
+  quantity: "varianceLimit" | "meanGrowth";
+  /** The power of n: Var(X_n)/n^p or E X_n / n^q. */
+  scaling: number;
+  /** "profile": beta estimated; "fixed": beta assumed; "log": E X_n/n = g + (a ln n + b)/n;
+   * "none": ratio at the largest n only (no extrapolation). */
+  method: "profile" | "fixed" | "log" | "none";
+  estimate: number;
+  standardError: number;
+  ci: [number, number] | null;
+  level: number;
+  beta: number | null;
+  betaInterval: [number, number] | null;
+  /** Misfit p-value of the model (null when no degrees of freedom remain). */
+  misfitPValue: number | null;
+  /** Estimates under other assumed rates (fixed method only). */
+  sensitivity: { beta: number; estimate: number; ci: [number, number] }[];
+  /** Ratio and its jackknife SE at each grid point. */
+  ratios: { n: number; value: number; standardError: number }[];
+  note: string;
+}
+
+export interface VerdictReport {
+  checks: Check[];
+  limits: LimitEstimate[];
+  alpha: number;
+  /** Number of checks with verdict "fail". */
+  failed: number;
+}
