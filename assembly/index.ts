@@ -1,0 +1,18 @@
+// WASM entry: the kernel API loaded by src/engine/wasm.ts.
+export {
+  allocF64,
+  allocI32,
+  setup,
+  setWalk,
+  seedBlock,
+  runPaths,
+  pointsXPtr,
+  pointsYPtr,
+  hullXPtr,
+  hullYPtr,
+  getHullCount,
+  drawSteps,
+  hullOfPoints,
+  measureHull,
+} from "./simulate";
+export { fillNormals, fillNormalsPolar, nextSubstream, zigTable } from "./rng";

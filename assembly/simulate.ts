@@ -1,0 +1,324 @@
+// One block of paths: k walks from the origin, hulls at every n of the grid along one path.
+// Per grid segment (n_{g-1}, n_g]: candidates = previous hull vertices + the new points of every
+// walk; a conservative point filter drops candidates strictly inside the polygon of 8 extreme
+// points; the survivors are sorted and chained (hull(prefix n_g) = hull(hull(prefix n_{g-1}) +
+// new points)). All buffers are allocated once in setup and reused for every path.
+
+import { nextSubstream, seedBlockStream } from "./rng";
+import { drawStepsInto } from "./laws";
+import { monotoneChain, sortPoints } from "./hull";
+import { area, diameter, perimeter } from "./measures";
+
+let K: i32 = 0;
+let N: i32 = 0;
+let G: i32 = 0;
+let gridPtr: usize = 0; // i32[G]
+let codesPtr: usize = 0; // i32[K]
+let paramsPtr: usize = 0; // usize[K] (pointers to f64 params)
+let PX: usize = 0, PY: usize = 0; // f64[K * (N + 1)], walk-major positions
+let SX: usize = 0, SY: usize = 0, NZ: usize = 0; // step scratch
+let CX: usize = 0, CY: usize = 0; // candidates
+let HX: usize = 0, HY: usize = 0; // hull
+let SEG: usize = 0; // f64[G * 5] per-segment sums x, y, xx, xy, yy (all walks)
+let EDGES: usize = 0; // f64[8 * 3]
+let hullCount: i32 = 0;
+let candCap: i32 = 0;
+
+/** Candidates below this count skip the filter (its set-up would cost more than it saves). */
+const FILTER_MIN: i32 = 32;
+
+export function allocF64(count: i32): usize {
+  return heap.alloc(<usize>max(count, 1) << 3);
+}
+export function allocI32(count: i32): usize {
+  return heap.alloc(<usize>max(count, 1) << 2);
+}
+
+/**
+ * Sets up k walks and the grid (gridPtr: i32[g], strictly increasing). Buffers sized from n_max
+ * and k. Call setWalk for each walk afterwards.
+ */
+export function setup(k: i32, grid: usize, g: i32): void {
+  K = k;
+  G = g;
+  gridPtr = grid;
+  N = load<i32>(grid + (<usize>(g - 1) << 2));
+  codesPtr = allocI32(k);
+  paramsPtr = heap.alloc(<usize>k << 3);
+  const pts = k * (N + 1);
+  PX = allocF64(pts);
+  PY = allocF64(pts);
+  SX = allocF64(N);
+  SY = allocF64(N);
+  NZ = allocF64(2 * N);
+  candCap = 2 * pts + 8;
+  CX = allocF64(candCap);
+  CY = allocF64(candCap);
+  HX = allocF64(2 * candCap + 2);
+  HY = allocF64(2 * candCap + 2);
+  SEG = allocF64(5 * g);
+  EDGES = allocF64(24);
+}
+
+export function setWalk(j: i32, code: i32, params: usize): void {
+  store<i32>(codesPtr + (<usize>j << 2), code);
+  store<usize>(paramsPtr + (<usize>j << 3), params);
+}
+
+export function seedBlock(seed: u64, block: u64): void {
+  seedBlockStream(seed, block);
+}
+
+@inline function gridAt(g: i32): i32 {
+  return load<i32>(gridPtr + (<usize>g << 2));
+}
+
+// ---- Extremes in 8 directions of a normalised frame x' = fa x, y' = fb x + fc y.
+let fa: f64 = 1, fb: f64 = 0, fc: f64 = 1;
+let eU0: f64 = 0, eS1: f64 = 0, eV2: f64 = 0, eD3: f64 = 0, eU4: f64 = 0, eS5: f64 = 0, eV6: f64 = 0, eD7: f64 = 0;
+let ex0: f64 = 0, ey0: f64 = 0, ex1: f64 = 0, ey1: f64 = 0, ex2: f64 = 0, ey2: f64 = 0, ex3: f64 = 0, ey3: f64 = 0;
+let ex4: f64 = 0, ey4: f64 = 0, ex5: f64 = 0, ey5: f64 = 0, ex6: f64 = 0, ey6: f64 = 0, ex7: f64 = 0, ey7: f64 = 0;
+let absX: f64 = 0, absY: f64 = 0;
+let candCount: i32 = 0;
+
+/**
+ * Frame from the second moments of the points so far (cnt points, sums): the inverse Cholesky
+ * factor of their covariance, so the cloud looks round (a needle-shaped drifting walk included).
+ * Falls back to the identity for (near) collinear clouds. Any frame keeps the filter correct.
+ */
+export function setFrame(cnt: f64, sx: f64, sy: f64, sxx: f64, sxy: f64, syy: f64): void {
+  fa = 1; fb = 0; fc = 1;
+  const mx = sx / cnt, my = sy / cnt;
+  const cxx = sxx / cnt - mx * mx;
+  const cxy = sxy / cnt - mx * my;
+  const cyy = syy / cnt - my * my;
+  if (!(cxx > 0) || !(cyy > 0)) return;
+  const l11 = Math.sqrt(cxx);
+  const l21 = cxy / l11;
+  const schur = cyy - l21 * l21;
+  if (!(schur > 1e-9 * cyy)) return;
+  const l22 = Math.sqrt(schur);
+  fa = 1.0 / l11;
+  fb = -l21 / (l11 * l22);
+  fc = 1.0 / l22;
+}
+
+/** Starts a candidate list with its first point (initialises the extremes). */
+function resetExtremes(x: f64, y: f64): void {
+  const u = fa * x, v = fb * x + fc * y;
+  const s = u + v, d = u - v;
+  eU0 = u; eU4 = u; eS1 = s; eS5 = s; eV2 = v; eV6 = v; eD3 = d; eD7 = d;
+  ex0 = x; ex1 = x; ex2 = x; ex3 = x; ex4 = x; ex5 = x; ex6 = x; ex7 = x;
+  ey0 = y; ey1 = y; ey2 = y; ey3 = y; ey4 = y; ey5 = y; ey6 = y; ey7 = y;
+  absX = Math.abs(x);
+  absY = Math.abs(y);
+}
+
+/** Appends src[from..to) to the candidates, updating the extremes and max |x|, |y|. */
+function gather(srcX: usize, srcY: usize, from: i32, to: i32): void {
+  let u0 = eU0, s1 = eS1, v2 = eV2, d3 = eD3, u4 = eU4, s5 = eS5, v6 = eV6, d7 = eD7;
+  let mxa = absX, mya = absY;
+  const a = fa, b = fb, c = fc;
+  let w = candCount;
+  for (let i = from; i < to; i++) {
+    const x = load<f64>(srcX + (<usize>i << 3));
+    const y = load<f64>(srcY + (<usize>i << 3));
+    store<f64>(CX + (<usize>w << 3), x);
+    store<f64>(CY + (<usize>w << 3), y);
+    w++;
+    const u = a * x, v = b * x + c * y;
+    const s = u + v, d = u - v;
+    if (u > u0) { u0 = u; ex0 = x; ey0 = y; }
+    if (u < u4) { u4 = u; ex4 = x; ey4 = y; }
+    if (s > s1) { s1 = s; ex1 = x; ey1 = y; }
+    if (s < s5) { s5 = s; ex5 = x; ey5 = y; }
+    if (v > v2) { v2 = v; ex2 = x; ey2 = y; }
+    if (v < v6) { v6 = v; ex6 = x; ey6 = y; }
+    if (d < d3) { d3 = d; ex3 = x; ey3 = y; }
+    if (d > d7) { d7 = d; ex7 = x; ey7 = y; }
+    mxa = max(mxa, Math.abs(x));
+    mya = max(mya, Math.abs(y));
+  }
+  eU0 = u0; eS1 = s1; eV2 = v2; eD3 = d3; eU4 = u4; eS5 = s5; eV6 = v6; eD7 = d7;
+  absX = mxa; absY = mya;
+  candCount = w;
+}
+
+let polyN: i32 = 0;
+let polyX: usize = heap.alloc(8 << 3);
+let polyY: usize = heap.alloc(8 << 3);
+
+@inline function polyPush(x: f64, y: f64): void {
+  if (polyN > 0 && load<f64>(polyX + (<usize>(polyN - 1) << 3)) == x && load<f64>(polyY + (<usize>(polyN - 1) << 3)) == y) return;
+  store<f64>(polyX + (<usize>polyN << 3), x);
+  store<f64>(polyY + (<usize>polyN << 3), y);
+  polyN++;
+}
+
+/**
+ * Drops candidates strictly inside the polygon E0..E7 of extreme points (in the frame's angular
+ * order). A point strictly left of every edge of a closed polygon lies in the interior of the
+ * hull of its vertices (its winding number is positive and no line through it separates the
+ * vertices), so dropping it cannot change the hull, whatever the rounding in picking the
+ * extremes. "Strictly left" is certified: with E = b - a, the test E_x p_y - E_y p_x > c + eps,
+ * c = E_x a_y - E_y a_x, eps = 4e-15 (|E_x| max|y| + |E_y| max|x|), bounds every rounding error
+ * (about 7 u (|E_x| max|y| + |E_y| max|x|), u = 2^-53) with a margin of 5. Returns the new count.
+ */
+export function filterCandidates(): i32 {
+  const count = candCount;
+  if (count < FILTER_MIN) return count;
+  polyN = 0;
+  polyPush(ex0, ey0); polyPush(ex1, ey1); polyPush(ex2, ey2); polyPush(ex3, ey3);
+  polyPush(ex4, ey4); polyPush(ex5, ey5); polyPush(ex6, ey6); polyPush(ex7, ey7);
+  while (polyN > 1 && load<f64>(polyX + (<usize>(polyN - 1) << 3)) == load<f64>(polyX) &&
+    load<f64>(polyY + (<usize>(polyN - 1) << 3)) == load<f64>(polyY)) polyN--;
+  const m = polyN;
+  if (m < 3) return count;
+  for (let e = 0; e < m; e++) {
+    const f = e + 1 == m ? 0 : e + 1;
+    const ax = load<f64>(polyX + (<usize>e << 3)), ay = load<f64>(polyY + (<usize>e << 3));
+    const bx = load<f64>(polyX + (<usize>f << 3)), by = load<f64>(polyY + (<usize>f << 3));
+    const exx = bx - ax, eyy = by - ay;
+    const c = exx * ay - eyy * ax;
+    const eps = 4e-15 * (Math.abs(exx) * absY + Math.abs(eyy) * absX);
+    store<f64>(EDGES + (<usize>(3 * e) << 3), exx);
+    store<f64>(EDGES + (<usize>(3 * e + 1) << 3), eyy);
+    store<f64>(EDGES + (<usize>(3 * e + 2) << 3), c + eps);
+  }
+  let w = 0;
+  for (let i = 0; i < count; i++) {
+    const x = load<f64>(CX + (<usize>i << 3));
+    const y = load<f64>(CY + (<usize>i << 3));
+    let inside = true;
+    for (let e = 0; e < m; e++) {
+      const o = EDGES + (<usize>(3 * e) << 3);
+      if (!(load<f64>(o) * y - load<f64>(o + 8) * x > load<f64>(o + 16))) { inside = false; break; }
+    }
+    if (!inside) {
+      store<f64>(CX + (<usize>w << 3), x);
+      store<f64>(CY + (<usize>w << 3), y);
+      w++;
+    }
+  }
+  candCount = w;
+  return w;
+}
+
+/** Hull of the current candidates into HX/HY; returns the vertex count. */
+function chainCandidates(): i32 {
+  const n = filterCandidates();
+  sortPoints(CX, CY, 0, n - 1);
+  hullCount = monotoneChain(CX, CY, n, HX, HY);
+  return hullCount;
+}
+
+/** Simulates one path; writes G * 4 values (perimeter, diameter, area, vertices per grid n). */
+export function runPath(out: usize): void {
+  const stride = N + 1;
+  for (let g = 0; g < G; g++) {
+    const o = SEG + (<usize>(5 * g) << 3);
+    store<f64>(o, 0); store<f64>(o + 8, 0); store<f64>(o + 16, 0); store<f64>(o + 24, 0); store<f64>(o + 32, 0);
+  }
+  for (let j = 0; j < K; j++) {
+    nextSubstream();
+    drawStepsInto(load<i32>(codesPtr + (<usize>j << 2)), load<usize>(paramsPtr + (<usize>j << 3)), N, SX, SY, NZ);
+    const px = PX + (<usize>(j * stride) << 3), py = PY + (<usize>(j * stride) << 3);
+    let x = 0.0, y = 0.0;
+    store<f64>(px, 0.0);
+    store<f64>(py, 0.0);
+    let i = 0;
+    for (let g = 0; g < G; g++) {
+      const hi = gridAt(g);
+      let sx = 0.0, sy = 0.0, sxx = 0.0, sxy = 0.0, syy = 0.0;
+      for (; i < hi; i++) {
+        x += load<f64>(SX + (<usize>i << 3));
+        y += load<f64>(SY + (<usize>i << 3));
+        store<f64>(px + (<usize>(i + 1) << 3), x);
+        store<f64>(py + (<usize>(i + 1) << 3), y);
+        sx += x; sy += y; sxx += x * x; sxy += x * y; syy += y * y;
+      }
+      const o = SEG + (<usize>(5 * g) << 3);
+      store<f64>(o, load<f64>(o) + sx);
+      store<f64>(o + 8, load<f64>(o + 8) + sy);
+      store<f64>(o + 16, load<f64>(o + 16) + sxx);
+      store<f64>(o + 24, load<f64>(o + 24) + sxy);
+      store<f64>(o + 32, load<f64>(o + 32) + syy);
+    }
+  }
+  let cx = 0.0, cy = 0.0, cxx = 0.0, cxy = 0.0, cyy = 0.0;
+  let prev = 0;
+  for (let g = 0; g < G; g++) {
+    const hi = gridAt(g);
+    const o = SEG + (<usize>(5 * g) << 3);
+    cx += load<f64>(o); cy += load<f64>(o + 8); cxx += load<f64>(o + 16); cxy += load<f64>(o + 24); cyy += load<f64>(o + 32);
+    setFrame(1.0 + <f64>K * <f64>hi, cx, cy, cxx, cxy, cyy);
+    candCount = 0;
+    if (g == 0) {
+      resetExtremes(0.0, 0.0);
+      gather(PX, PY, 0, 1); // the origin, once
+    } else {
+      resetExtremes(load<f64>(HX), load<f64>(HY));
+      gather(HX, HY, 0, hullCount);
+    }
+    for (let j = 0; j < K; j++) {
+      const base = j * stride;
+      gather(PX, PY, base + prev + 1, base + hi + 1);
+    }
+    const h = chainCandidates();
+    const r = out + (<usize>(4 * g) << 3);
+    store<f64>(r, perimeter(HX, HY, h));
+    store<f64>(r + 8, diameter(HX, HY, h));
+    store<f64>(r + 16, area(HX, HY, h));
+    store<f64>(r + 24, <f64>h);
+    prev = hi;
+  }
+}
+
+/** Runs `count` paths of the current block stream into out (count * G * 4 f64). */
+export function runPaths(count: i32, out: usize): void {
+  const rec = <usize>(G * 4) << 3;
+  for (let p = 0; p < count; p++) runPath(out + <usize>p * rec);
+}
+
+export function pointsXPtr(): usize { return PX; }
+export function pointsYPtr(): usize { return PY; }
+export function hullXPtr(): usize { return HX; }
+export function hullYPtr(): usize { return HY; }
+export function getHullCount(): i32 { return hullCount; }
+
+/** Test/bench helper: `count` steps of walk j from the first substream of (seed, block). */
+export function drawSteps(j: i32, count: i32, sx: usize, sy: usize, scratch: usize): void {
+  nextSubstream();
+  drawStepsInto(load<i32>(codesPtr + (<usize>j << 2)), load<usize>(paramsPtr + (<usize>j << 3)), count, sx, sy, scratch);
+}
+
+/**
+ * Test helper: hull of arbitrary points through the kernel's own path (frame from the points'
+ * moments, extremes, filter, sort, chain). Needs buffers of capacity >= count (use a setup with
+ * k * (n_max + 1) >= count). Returns the vertex count; vertices via hullXPtr/hullYPtr.
+ */
+export function hullOfPoints(xs: usize, ys: usize, count: i32, useFilter: bool): i32 {
+  let sx = 0.0, sy = 0.0, sxx = 0.0, sxy = 0.0, syy = 0.0;
+  for (let i = 0; i < count; i++) {
+    const x = load<f64>(xs + (<usize>i << 3)), y = load<f64>(ys + (<usize>i << 3));
+    sx += x; sy += y; sxx += x * x; sxy += x * y; syy += y * y;
+  }
+  setFrame(<f64>count, sx, sy, sxx, sxy, syy);
+  candCount = 0;
+  hullCount = 0;
+  if (count == 0) return 0;
+  resetExtremes(load<f64>(xs), load<f64>(ys));
+  gather(xs, ys, 0, count);
+  const n = useFilter ? filterCandidates() : candCount;
+  sortPoints(CX, CY, 0, n - 1);
+  hullCount = monotoneChain(CX, CY, n, HX, HY);
+  return hullCount;
+}
+
+/** Test helper: the measures of the current hull into out[0..4). */
+export function measureHull(out: usize): void {
+  store<f64>(out, perimeter(HX, HY, hullCount));
+  store<f64>(out + 8, diameter(HX, HY, hullCount));
+  store<f64>(out + 16, area(HX, HY, hullCount));
+  store<f64>(out + 24, <f64>hullCount);
+}

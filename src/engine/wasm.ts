@@ -1,0 +1,205 @@
+// Loads build/walkhull.wasm (built by `npm run build:wasm`) and wraps one instance as a Kernel.
+// This file runs as src/engine/wasm.ts (vitest, tsx) and as dist/engine/wasm.js: both sit two
+// levels below the project root, so one relative URL finds the module.
+
+import { readFileSync } from "node:fs";
+import { readFile } from "node:fs/promises";
+import { fileURLToPath } from "node:url";
+import { MEASURES_PER_RECORD, type Kernel, type KernelSetup } from "./types.js";
+import { zigguratTables } from "./prng.js";
+
+const WASM_URL = new URL("../../build/walkhull.wasm", import.meta.url);
+
+function missing(err: unknown): Error {
+  return new Error(
+    `build/walkhull.wasm: cannot read ${fileURLToPath(WASM_URL)} (run \`npm run build:wasm\`): ${String(err)}`,
+  );
+}
+
+export async function loadWasmModule(): Promise<WebAssembly.Module> {
+  let bytes: Buffer;
+  try {
+    bytes = await readFile(WASM_URL);
+  } catch (err) {
+    throw missing(err);
+  }
+  return WebAssembly.compile(bytes);
+}
+
+export function loadWasmModuleSync(): WebAssembly.Module {
+  let bytes: Buffer;
+  try {
+    bytes = readFileSync(WASM_URL);
+  } catch (err) {
+    throw missing(err);
+  }
+  return new WebAssembly.Module(bytes);
+}
+
+/** The raw exports of assembly/index.ts (pointers are byte offsets into memory). */
+export interface WalkhullExports {
+  memory: WebAssembly.Memory;
+  allocF64(count: number): number;
+  allocI32(count: number): number;
+  setup(k: number, gridPtr: number, g: number): void;
+  setWalk(j: number, code: number, paramsPtr: number): void;
+  seedBlock(seed: bigint, block: bigint): void;
+  runPaths(count: number, outPtr: number): void;
+  pointsXPtr(): number;
+  pointsYPtr(): number;
+  hullXPtr(): number;
+  hullYPtr(): number;
+  getHullCount(): number;
+  drawSteps(j: number, count: number, sxPtr: number, syPtr: number, scratchPtr: number): void;
+  hullOfPoints(xsPtr: number, ysPtr: number, count: number, useFilter: number): number;
+  measureHull(outPtr: number): void;
+  fillNormals(outPtr: number, count: number): void;
+  fillNormalsPolar(outPtr: number, count: number): void;
+  nextSubstream(): void;
+  zigTable: WebAssembly.Global;
+}
+
+/** Paths simulated per runPaths call (the output buffer holds this many records). */
+const CHUNK_PATHS = 256;
+
+/** A WASM kernel; the extra methods serve tests and benches (they reuse setup-time buffers). */
+export interface WasmKernel extends Kernel {
+  readonly exports: WalkhullExports;
+  /** `count` raw steps of walk j from the first substream of (seed, block). */
+  drawSteps(block: number, j: number, count: number): { x: Float64Array; y: Float64Array };
+  /**
+   * Hull of a point set through the kernel's filter + chain; count <= k * (nMax + 1).
+   * Returns the vertices and [perimeter, diameter, area, vertices].
+   */
+  hullOfPoints(xs: ArrayLike<number>, ys: ArrayLike<number>, useFilter?: boolean): { x: Float64Array; y: Float64Array; measures: Float64Array };
+  /** `count` normals (ziggurat or polar) from the first substream of (seed, block) (bench). */
+  normals(block: number, count: number, method: "ziggurat" | "polar"): Float64Array;
+}
+
+export function createWasmKernel(module: WebAssembly.Module, setup: KernelSetup): WasmKernel {
+  const instance = new WebAssembly.Instance(module, {
+    env: {
+      abort(_msg: number, _file: number, line: number, column: number): never {
+        throw new Error(`walkhull.wasm: abort at ${line}:${column}`);
+      },
+    },
+  });
+  const ex = instance.exports as unknown as WalkhullExports;
+  const k = setup.walks.length;
+  const G = setup.grid.length;
+  const nMax = setup.grid[G - 1];
+  const rec = G * MEASURES_PER_RECORD;
+  const capacity = k * (nMax + 1);
+  const seed = BigInt(setup.seed);
+
+  // Inputs are written right after their allocation through a fresh view; the long-lived view
+  // (`heap`) is re-created whenever memory has grown.
+  const gridPtr = ex.allocI32(G);
+  new Int32Array(ex.memory.buffer, gridPtr, G).set(setup.grid);
+  const paramPtrs = setup.walks.map((w) => {
+    const ptr = ex.allocF64(w.params.length);
+    new Float64Array(ex.memory.buffer, ptr, w.params.length).set(w.params);
+    return ptr;
+  });
+  ex.setup(k, gridPtr, G);
+  setup.walks.forEach((w, j) => ex.setWalk(j, w.code, paramPtrs[j]));
+  // The ziggurat tables of the twin (V8's exp/log), so both kernels draw the same normals;
+  // AssemblyScript's own exp/log give tables differing in the last ulp.
+  const zig = zigguratTables();
+  const zigPtr = Number(ex.zigTable.value);
+  new Float64Array(ex.memory.buffer, zigPtr, 257).set(zig.X);
+  new Float64Array(ex.memory.buffer, zigPtr + 257 * 8, 257).set(zig.F);
+  const outPtr = ex.allocF64(CHUNK_PATHS * rec);
+  const inXPtr = ex.allocF64(capacity);
+  const inYPtr = ex.allocF64(capacity);
+  const measPtr = ex.allocF64(4);
+  let scratch = { count: 0, x: 0, y: 0, z: 0 };
+
+  let heap = new Float64Array(ex.memory.buffer);
+  const refresh = (): Float64Array => {
+    if (heap.buffer !== ex.memory.buffer) heap = new Float64Array(ex.memory.buffer);
+    return heap;
+  };
+
+  const ensureScratch = (count: number) => {
+    if (count > scratch.count) {
+      scratch = { count, x: ex.allocF64(count), y: ex.allocF64(count), z: ex.allocF64(2 * count) };
+    }
+  };
+
+  const readHull = (): Float64Array => {
+    const h = ex.getHullCount();
+    const H = refresh();
+    const hx = ex.hullXPtr() / 8, hy = ex.hullYPtr() / 8;
+    const hull = new Float64Array(2 * h);
+    for (let i = 0; i < h; i++) {
+      hull[2 * i] = H[hx + i];
+      hull[2 * i + 1] = H[hy + i];
+    }
+    return hull;
+  };
+
+  return {
+    exports: ex,
+    runBlock(block: number, pathCount: number): Float64Array {
+      const out = new Float64Array(pathCount * rec);
+      ex.seedBlock(seed, BigInt(block));
+      for (let done = 0; done < pathCount; done += CHUNK_PATHS) {
+        const c = Math.min(CHUNK_PATHS, pathCount - done);
+        ex.runPaths(c, outPtr);
+        out.set(refresh().subarray(outPtr / 8, outPtr / 8 + c * rec), done * rec);
+      }
+      return out;
+    },
+    samplePath(block: number) {
+      ex.seedBlock(seed, BigInt(block));
+      ex.runPaths(1, outPtr);
+      const H = refresh();
+      const px = ex.pointsXPtr() / 8, py = ex.pointsYPtr() / 8;
+      const stride = nMax + 1;
+      const points: Float64Array[] = [];
+      for (let j = 0; j < k; j++) {
+        const pts = new Float64Array(2 * stride);
+        for (let i = 0; i < stride; i++) {
+          pts[2 * i] = H[px + j * stride + i];
+          pts[2 * i + 1] = H[py + j * stride + i];
+        }
+        points.push(pts);
+      }
+      return { points, hull: readHull() };
+    },
+    drawSteps(block: number, j: number, count: number) {
+      ensureScratch(count);
+      ex.seedBlock(seed, BigInt(block));
+      ex.drawSteps(j, count, scratch.x, scratch.y, scratch.z);
+      const H = refresh();
+      return {
+        x: H.slice(scratch.x / 8, scratch.x / 8 + count),
+        y: H.slice(scratch.y / 8, scratch.y / 8 + count),
+      };
+    },
+    hullOfPoints(xs, ys, useFilter = true) {
+      const count = xs.length;
+      if (count > capacity) throw new Error(`points: ${count} points exceed the kernel capacity ${capacity}`);
+      const H = refresh();
+      for (let i = 0; i < count; i++) {
+        H[inXPtr / 8 + i] = xs[i];
+        H[inYPtr / 8 + i] = ys[i];
+      }
+      const h = ex.hullOfPoints(inXPtr, inYPtr, count, useFilter ? 1 : 0);
+      ex.measureHull(measPtr);
+      const hull = readHull();
+      const x = new Float64Array(h), y = new Float64Array(h);
+      for (let i = 0; i < h; i++) { x[i] = hull[2 * i]; y[i] = hull[2 * i + 1]; }
+      return { x, y, measures: refresh().slice(measPtr / 8, measPtr / 8 + 4) };
+    },
+    normals(block: number, count: number, method: "ziggurat" | "polar"): Float64Array {
+      ensureScratch(count);
+      ex.seedBlock(seed, BigInt(block));
+      ex.nextSubstream();
+      if (method === "ziggurat") ex.fillNormals(scratch.z, count);
+      else ex.fillNormalsPolar(scratch.z, count);
+      return refresh().slice(scratch.z / 8, scratch.z / 8 + count);
+    },
+  };
+}
