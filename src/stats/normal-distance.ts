@@ -77,6 +77,9 @@ function nelderMead2(f: (p: [number, number]) => number, start: [number, number]
   let simplex: [number, number][] = [start, [start[0] + scale[0], start[1]], [start[0], start[1] + scale[1]]];
   let values = simplex.map(f);
   for (let it = 0; it < iters; it++) {
+    const spread = Math.max(...values) - Math.min(...values);
+    const size = Math.max(Math.abs(simplex[1][0] - simplex[0][0]), Math.abs(simplex[2][0] - simplex[0][0]), Math.abs(simplex[1][1] - simplex[0][1]), Math.abs(simplex[2][1] - simplex[0][1]));
+    if (spread < 1e-7 && size < 1e-5) break;
     const order = [0, 1, 2].sort((a, b) => values[a] - values[b]);
     simplex = order.map((k) => simplex[k]);
     values = order.map((k) => values[k]);

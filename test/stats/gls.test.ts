@@ -1,0 +1,122 @@
+import { describe, expect, it } from "vitest";
+import seedrandom from "seedrandom";
+import { fitPowerLawFixed, fitPowerLawProfile, gridIdentifiesRate, linearGls, profileTest, weightMatrix } from "../../src/stats/gls.js";
+import { choleskyInverse, cholesky } from "../../src/stats/linalg.js";
+import { wilsonInterval } from "../../src/stats/binomial.js";
+
+const diag = (v: number[]) => {
+  const m = v.length;
+  const c = new Float64Array(m * m);
+  v.forEach((x, i) => (c[i * m + i] = x));
+  return c;
+};
+
+function gaussian(rng: () => number): number {
+  const u = 1 - rng();
+  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rng());
+}
+
+describe("linear algebra", () => {
+  it("doc example: inverse of [[4,2],[2,3]]", () => {
+    const inv = choleskyInverse([4, 2, 2, 3], 2);
+    expect(Array.from(inv).map((x) => Number(x.toFixed(12)))).toEqual([0.375, -0.25, -0.25, 0.5]);
+  });
+  it("names the field when not positive definite", () => {
+    expect(() => cholesky([1, 2, 2, 1], 2, "covariance")).toThrow(/^covariance: not positive definite/);
+  });
+});
+
+describe("GLS", () => {
+  it("with W = I equals ordinary least squares by the normal equations (naive 2x2 solve)", () => {
+    const x = [1, 2, 3, 4, 5];
+    const y = [1.1, 1.9, 3.2, 3.9, 5.3];
+    const design = x.flatMap((v) => [1, v]);
+    const g = linearGls(y, design, 2, diag([1, 1, 1, 1, 1]));
+    const n = 5;
+    const sx = x.reduce((a, b) => a + b), sy = y.reduce((a, b) => a + b);
+    const sxx = x.reduce((a, b) => a + b * b, 0), sxy = x.reduce((a, v, i) => a + v * y[i], 0);
+    const slope = (n * sxy - sx * sy) / (n * sxx - sx * sx);
+    const icpt = (sy - slope * sx) / n;
+    expect(g.coef[0]).toBeCloseTo(icpt, 12);
+    expect(g.coef[1]).toBeCloseTo(slope, 12);
+    const rss = y.reduce((a, v, i) => a + (v - icpt - slope * x[i]) ** 2, 0);
+    expect(g.chi2).toBeCloseTo(rss, 12);
+    expect(g.df).toBe(3);
+  });
+
+  it("the Hartlap factor scales the weights by (g - m - 2)/(g - 1)", () => {
+    const w = weightMatrix(diag([2, 2, 2]), 3, 64);
+    expect(w[0]).toBeCloseTo(0.5 * (59 / 63), 14);
+    expect(() => weightMatrix(diag([1, 1, 1]), 3, 5)).toThrow(/^blocks:/);
+  });
+});
+
+describe("power-law extrapolation y = s2 + c n^-beta", () => {
+  const grid = [10, 32, 100, 316, 1000, 3162, 10000];
+  it("recovers s2 and beta from exact data", () => {
+    const y = grid.map((n) => 2 + 3 * Math.pow(n, -0.5));
+    const f = fitPowerLawProfile(grid, y, diag(grid.map(() => 1e-8)));
+    expect(f.s2).toBeCloseTo(2, 6);
+    expect(f.beta).toBeCloseTo(0.5, 5);
+    expect(f.chi2).toBeLessThan(1e-6);
+    const fx = fitPowerLawFixed(grid, y, diag(grid.map(() => 1e-8)), 0.5);
+    expect(fx.s2).toBeCloseTo(2, 10);
+    expect(fx.c).toBeCloseTo(3, 10);
+  });
+
+  it("recovers s2 and beta from noisy correlated synthetic data (z = 3 on the replicate mean), and the profile interval covers at its level", () => {
+    // Truth: s2 = 6.8284, c = -4, beta = 0.75. Noise: random-walk-correlated errors, cov_ij =
+    // tau^2 min(i, j) + small diagonal, known to the fit. 60 replications, fixed seed.
+    const rng = seedrandom("gls-synthetic");
+    const m = grid.length;
+    const cov = new Float64Array(m * m);
+    const tau = 0.004;
+    for (let i = 0; i < m; i++) for (let j = 0; j < m; j++) cov[i * m + j] = tau * tau * (Math.min(m - i, m - j)) + (i === j ? 1e-6 : 0);
+    const L = cholesky(cov, m);
+    const reps = 60;
+    const s2s: number[] = [];
+    const betas: number[] = [];
+    let covered = 0;
+    for (let r = 0; r < reps; r++) {
+      const e = Array.from({ length: m }, () => gaussian(rng));
+      const y = grid.map((n, i) => {
+        let noise = 0;
+        for (let k = 0; k <= i; k++) noise += L[i * m + k] * e[k];
+        return 6.8284 - 4 * Math.pow(n, -0.75) + noise;
+      });
+      const f = fitPowerLawProfile(grid, y, cov);
+      s2s.push(f.s2);
+      betas.push(f.beta);
+      if (f.s2Interval[0] <= 6.8284 && 6.8284 <= f.s2Interval[1]) covered++;
+    }
+    const mean = (v: number[]) => v.reduce((a, b) => a + b, 0) / v.length;
+    const sd = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + (b - mean(v)) ** 2, 0) / (v.length - 1));
+    expect(Math.abs(mean(s2s) - 6.8284)).toBeLessThanOrEqual(3 * sd(s2s) / Math.sqrt(reps));
+    expect(Math.abs(mean(betas) - 0.75)).toBeLessThanOrEqual(3 * sd(betas) / Math.sqrt(reps) + 0.005);
+    // Coverage: the 99.9% Wilson interval of the observed rate contains the nominal 0.95.
+    const [lo, hi] = wilsonInterval(covered, reps, 0.999);
+    expect(lo).toBeLessThanOrEqual(0.95);
+    expect(hi).toBeGreaterThanOrEqual(0.95);
+  });
+
+  it("the profile test inverts the profile interval", () => {
+    const rng = seedrandom("inv");
+    const y = grid.map((n) => 1 + 2 * Math.pow(n, -1) + 0.01 * gaussian(rng));
+    const cov = diag(grid.map(() => 1e-4));
+    const f = fitPowerLawProfile(grid, y, cov);
+    expect(profileTest(grid, y, cov, f.s2Interval[0]).pValue).toBeCloseTo(0.05, 2);
+    expect(profileTest(grid, y, cov, f.s2Interval[1]).pValue).toBeCloseTo(0.05, 2);
+    expect(profileTest(grid, y, cov, f.s2).pValue).toBeGreaterThan(0.99);
+  });
+
+  it("refuses to estimate beta from a 3-point grid, and the grid rule says which grids identify it", () => {
+    const n3 = [100, 1000, 10000];
+    const y = n3.map((n) => 2 + Math.pow(n, -0.5));
+    expect(() => fitPowerLawProfile(n3, y, diag([1e-4, 1e-4, 1e-4]))).toThrow(/^n: estimating beta needs at least 4/);
+    expect(gridIdentifiesRate(n3)).toBe(false);
+    expect(gridIdentifiesRate([100, 200, 400, 800, 1600])).toBe(false); // 1.2 decades
+    expect(gridIdentifiesRate([10, 32, 100, 316, 1000])).toBe(true); // 2 decades, even
+    expect(gridIdentifiesRate([10, 11, 12, 13, 1000])).toBe(false); // one gap holds the whole span
+    expect(fitPowerLawFixed(n3, y, diag([1e-4, 1e-4, 1e-4]), 0.5).mode).toBe("fixed");
+  });
+});
