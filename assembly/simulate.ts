@@ -1,7 +1,7 @@
 // One block of paths: k walks from the origin, hulls at every n of the grid along one path.
 // Per grid segment (n_{g-1}, n_g]: candidates = previous hull vertices + the new points of every
-// walk; a conservative point filter drops candidates strictly inside the polygon of 8 extreme
-// points; the survivors are sorted and chained (hull(prefix n_g) = hull(hull(prefix n_{g-1}) +
+// walk; a conservative point filter drops new points strictly inside the polygon of 8 extreme
+// points of their walk's segment; the survivors are sorted and chained (hull(prefix n_g) = hull(hull(prefix n_{g-1}) +
 // new points)). All buffers are allocated once in setup and reused for every path.
 
 import { nextSubstream, seedBlockStream } from "./rng";
@@ -19,7 +19,7 @@ let PX: usize = 0, PY: usize = 0; // f64[K * (N + 1)], walk-major positions
 let SX: usize = 0, SY: usize = 0, NZ: usize = 0; // step scratch
 let CX: usize = 0, CY: usize = 0; // candidates
 let HX: usize = 0, HY: usize = 0; // hull
-let SEG: usize = 0; // f64[G * 5] per-segment sums x, y, xx, xy, yy (all walks)
+let SEG: usize = 0; // f64[K * G * 5] per walk, cumulative sums x, y, xx, xy, yy up to n_g
 let EDGES: usize = 0; // f64[8 * 3]
 let hullCount: i32 = 0;
 let candCap: i32 = 0;
@@ -56,7 +56,7 @@ export function setup(k: i32, grid: usize, g: i32): void {
   CY = allocF64(candCap);
   HX = allocF64(2 * candCap + 2);
   HY = allocF64(2 * candCap + 2);
-  SEG = allocF64(5 * g);
+  SEG = allocF64(5 * g * k);
   EDGES = allocF64(24);
 }
 
@@ -164,9 +164,9 @@ let polyY: usize = heap.alloc(8 << 3);
  * c = E_x a_y - E_y a_x, eps = 4e-15 (|E_x| max|y| + |E_y| max|x|), bounds every rounding error
  * (about 7 u (|E_x| max|y| + |E_y| max|x|), u = 2^-53) with a margin of 5. Returns the new count.
  */
-export function filterCandidates(): i32 {
+export function filterCandidates(start: i32): i32 {
   const count = candCount;
-  if (count < FILTER_MIN) return count;
+  if (count - start < FILTER_MIN) return count;
   polyN = 0;
   polyPush(ex0, ey0); polyPush(ex1, ey1); polyPush(ex2, ey2); polyPush(ex3, ey3);
   polyPush(ex4, ey4); polyPush(ex5, ey5); polyPush(ex6, ey6); polyPush(ex7, ey7);
@@ -185,8 +185,8 @@ export function filterCandidates(): i32 {
     store<f64>(EDGES + (<usize>(3 * e + 1) << 3), eyy);
     store<f64>(EDGES + (<usize>(3 * e + 2) << 3), c + eps);
   }
-  let w = 0;
-  for (let i = 0; i < count; i++) {
+  let w = start;
+  for (let i = start; i < count; i++) {
     const x = load<f64>(CX + (<usize>i << 3));
     const y = load<f64>(CY + (<usize>i << 3));
     let inside = true;
@@ -204,21 +204,34 @@ export function filterCandidates(): i32 {
   return w;
 }
 
+/** Appends src[from..to) to the candidates without filtering. */
+function append(srcX: usize, srcY: usize, from: i32, to: i32): void {
+  let w = candCount;
+  for (let i = from; i < to; i++) {
+    store<f64>(CX + (<usize>w << 3), load<f64>(srcX + (<usize>i << 3)));
+    store<f64>(CY + (<usize>w << 3), load<f64>(srcY + (<usize>i << 3)));
+    w++;
+  }
+  candCount = w;
+}
+
 /** Hull of the current candidates into HX/HY; returns the vertex count. */
 function chainCandidates(): i32 {
-  const n = filterCandidates();
+  const n = candCount;
   sortPoints(CX, CY, 0, n - 1);
   hullCount = monotoneChain(CX, CY, n, HX, HY);
   return hullCount;
 }
 
-/** Simulates one path; writes G * 4 values (perimeter, diameter, area, vertices per grid n). */
+/**
+ * Simulates one path; writes G * 4 values (perimeter, diameter, area, vertices per grid n).
+ * Each walk's new points are filtered against the polygon of their own extremes, in the frame
+ * of that walk's own cloud (so k needles pointing different ways are each filtered well): a point
+ * strictly inside one walk's hull is strictly inside the hull of all walks.
+ */
 export function runPath(out: usize): void {
   const stride = N + 1;
-  for (let g = 0; g < G; g++) {
-    const o = SEG + (<usize>(5 * g) << 3);
-    store<f64>(o, 0); store<f64>(o + 8, 0); store<f64>(o + 16, 0); store<f64>(o + 24, 0); store<f64>(o + 32, 0);
-  }
+  for (let q = 0; q < 5 * G * K; q++) store<f64>(SEG + (<usize>q << 3), 0.0);
   for (let j = 0; j < K; j++) {
     nextSubstream();
     drawStepsInto(load<i32>(codesPtr + (<usize>j << 2)), load<usize>(paramsPtr + (<usize>j << 3)), N, SX, SY, NZ);
@@ -227,9 +240,9 @@ export function runPath(out: usize): void {
     store<f64>(px, 0.0);
     store<f64>(py, 0.0);
     let i = 0;
+    let sx = 0.0, sy = 0.0, sxx = 0.0, sxy = 0.0, syy = 0.0; // cumulative over the walk
     for (let g = 0; g < G; g++) {
       const hi = gridAt(g);
-      let sx = 0.0, sy = 0.0, sxx = 0.0, sxy = 0.0, syy = 0.0;
       for (; i < hi; i++) {
         x += load<f64>(SX + (<usize>i << 3));
         y += load<f64>(SY + (<usize>i << 3));
@@ -237,32 +250,29 @@ export function runPath(out: usize): void {
         store<f64>(py + (<usize>(i + 1) << 3), y);
         sx += x; sy += y; sxx += x * x; sxy += x * y; syy += y * y;
       }
-      const o = SEG + (<usize>(5 * g) << 3);
-      store<f64>(o, load<f64>(o) + sx);
-      store<f64>(o + 8, load<f64>(o + 8) + sy);
-      store<f64>(o + 16, load<f64>(o + 16) + sxx);
-      store<f64>(o + 24, load<f64>(o + 24) + sxy);
-      store<f64>(o + 32, load<f64>(o + 32) + syy);
+      const o = SEG + (<usize>(5 * (j * G + g)) << 3);
+      store<f64>(o, sx);
+      store<f64>(o + 8, sy);
+      store<f64>(o + 16, sxx);
+      store<f64>(o + 24, sxy);
+      store<f64>(o + 32, syy);
     }
   }
-  let cx = 0.0, cy = 0.0, cxx = 0.0, cxy = 0.0, cyy = 0.0;
   let prev = 0;
   for (let g = 0; g < G; g++) {
     const hi = gridAt(g);
-    const o = SEG + (<usize>(5 * g) << 3);
-    cx += load<f64>(o); cy += load<f64>(o + 8); cxx += load<f64>(o + 16); cxy += load<f64>(o + 24); cyy += load<f64>(o + 32);
-    setFrame(1.0 + <f64>K * <f64>hi, cx, cy, cxx, cxy, cyy);
     candCount = 0;
-    if (g == 0) {
-      resetExtremes(0.0, 0.0);
-      gather(PX, PY, 0, 1); // the origin, once
-    } else {
-      resetExtremes(load<f64>(HX), load<f64>(HY));
-      gather(HX, HY, 0, hullCount);
-    }
+    if (g == 0) append(PX, PY, 0, 1); // the origin, once
+    else append(HX, HY, 0, hullCount);
     for (let j = 0; j < K; j++) {
+      const o = SEG + (<usize>(5 * (j * G + g)) << 3);
+      setFrame(<f64>(1 + hi), load<f64>(o), load<f64>(o + 8), load<f64>(o + 16), load<f64>(o + 24), load<f64>(o + 32));
       const base = j * stride;
-      gather(PX, PY, base + prev + 1, base + hi + 1);
+      const start = candCount;
+      const first = base + prev + 1;
+      resetExtremes(load<f64>(PX + (<usize>first << 3)), load<f64>(PY + (<usize>first << 3)));
+      gather(PX, PY, first, base + hi + 1);
+      filterCandidates(start);
     }
     const h = chainCandidates();
     const r = out + (<usize>(4 * g) << 3);
@@ -309,10 +319,8 @@ export function hullOfPoints(xs: usize, ys: usize, count: i32, useFilter: bool):
   if (count == 0) return 0;
   resetExtremes(load<f64>(xs), load<f64>(ys));
   gather(xs, ys, 0, count);
-  const n = useFilter ? filterCandidates() : candCount;
-  sortPoints(CX, CY, 0, n - 1);
-  hullCount = monotoneChain(CX, CY, n, HX, HY);
-  return hullCount;
+  if (useFilter) filterCandidates(0);
+  return chainCandidates();
 }
 
 /** Test helper: the measures of the current hull into out[0..4). */

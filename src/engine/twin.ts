@@ -135,7 +135,7 @@ export class TwinKernel implements Kernel {
     this.CY = new Float64Array(cap);
     this.HX = new Float64Array(2 * cap + 2);
     this.HY = new Float64Array(2 * cap + 2);
-    this.SEG = new Float64Array(5 * this.grid.length);
+    this.SEG = new Float64Array(5 * this.grid.length * this.k);
   }
 
   private setFrame(cnt: number, sx: number, sy: number, sxx: number, sxy: number, syy: number): void {
@@ -193,9 +193,9 @@ export class TwinKernel implements Kernel {
   }
 
   /** The conservative filter of assembly/simulate.ts filterCandidates (proof there). */
-  private filterCandidates(): number {
+  private filterCandidates(start: number): number {
     const count = this.candCount;
-    if (count < FILTER_MIN) return count;
+    if (count - start < FILTER_MIN) return count;
     const px = this.polyX, py = this.polyY;
     let m = 0;
     for (let e = 0; e < 8; e++) {
@@ -214,8 +214,8 @@ export class TwinKernel implements Kernel {
       E[3 * e] = exx; E[3 * e + 1] = eyy; E[3 * e + 2] = c + eps;
     }
     const CX = this.CX, CY = this.CY;
-    let w = 0;
-    for (let i = 0; i < count; i++) {
+    let w = start;
+    for (let i = start; i < count; i++) {
       const x = CX[i], y = CY[i];
       let inside = true;
       for (let e = 0; e < m; e++) {
@@ -228,11 +228,21 @@ export class TwinKernel implements Kernel {
     return w;
   }
 
+  private append(srcX: Float64Array, srcY: Float64Array, from: number, to: number): void {
+    let w = this.candCount;
+    for (let i = from; i < to; i++) {
+      this.CX[w] = srcX[i];
+      this.CY[w] = srcY[i];
+      w++;
+    }
+    this.candCount = w;
+  }
+
+  /** As assembly/simulate.ts runPath: per-walk frames and filters, one chain per grid n. */
   private runPath(out: Float64Array, offset: number): void {
     const { k, nMax: N, grid, PX, PY, SX, SY, NZ, SEG } = this;
     const G = grid.length;
     const stride = N + 1;
-    SEG.fill(0);
     for (let j = 0; j < k; j++) {
       this.rng.nextSubstream();
       drawStepsInto(this.walks[j], N, SX, SY, NZ, this.rng);
@@ -240,36 +250,35 @@ export class TwinKernel implements Kernel {
       let x = 0, y = 0;
       PX[base] = 0; PY[base] = 0;
       let i = 0;
+      let sx = 0, sy = 0, sxx = 0, sxy = 0, syy = 0;
       for (let g = 0; g < G; g++) {
         const hi = grid[g];
-        let sx = 0, sy = 0, sxx = 0, sxy = 0, syy = 0;
         for (; i < hi; i++) {
           x += SX[i]; y += SY[i];
           PX[base + i + 1] = x; PY[base + i + 1] = y;
           sx += x; sy += y; sxx += x * x; sxy += x * y; syy += y * y;
         }
-        SEG[5 * g] += sx; SEG[5 * g + 1] += sy; SEG[5 * g + 2] += sxx; SEG[5 * g + 3] += sxy; SEG[5 * g + 4] += syy;
+        const o = 5 * (j * G + g);
+        SEG[o] = sx; SEG[o + 1] = sy; SEG[o + 2] = sxx; SEG[o + 3] = sxy; SEG[o + 4] = syy;
       }
     }
-    let cx = 0, cy = 0, cxx = 0, cxy = 0, cyy = 0;
     let prev = 0;
     for (let g = 0; g < G; g++) {
       const hi = grid[g];
-      cx += SEG[5 * g]; cy += SEG[5 * g + 1]; cxx += SEG[5 * g + 2]; cxy += SEG[5 * g + 3]; cyy += SEG[5 * g + 4];
-      this.setFrame(1.0 + k * hi, cx, cy, cxx, cxy, cyy);
       this.candCount = 0;
-      if (g === 0) {
-        this.resetExtremes(0, 0);
-        this.gather(PX, PY, 0, 1);
-      } else {
-        this.resetExtremes(this.HX[0], this.HY[0]);
-        this.gather(this.HX, this.HY, 0, this.hullCount);
-      }
+      if (g === 0) this.append(PX, PY, 0, 1);
+      else this.append(this.HX, this.HY, 0, this.hullCount);
       for (let j = 0; j < k; j++) {
+        const o = 5 * (j * G + g);
+        this.setFrame(1 + hi, SEG[o], SEG[o + 1], SEG[o + 2], SEG[o + 3], SEG[o + 4]);
         const base = j * stride;
-        this.gather(PX, PY, base + prev + 1, base + hi + 1);
+        const start = this.candCount;
+        const first = base + prev + 1;
+        this.resetExtremes(PX[first], PY[first]);
+        this.gather(PX, PY, first, base + hi + 1);
+        this.filterCandidates(start);
       }
-      const h = this.chain(true);
+      const h = this.chain();
       const r = offset + MEASURES_PER_RECORD * g;
       out[r] = perimeterOf(this.HX, this.HY, h);
       out[r + 1] = diameterOf(this.HX, this.HY, h);
@@ -279,8 +288,8 @@ export class TwinKernel implements Kernel {
     }
   }
 
-  private chain(useFilter: boolean): number {
-    const n = useFilter ? this.filterCandidates() : this.candCount;
+  private chain(): number {
+    const n = this.candCount;
     sortPoints(this.CX, this.CY, 0, n - 1);
     this.hullCount = monotoneChain(this.CX, this.CY, n, this.HX, this.HY);
     return this.hullCount;
@@ -343,7 +352,8 @@ export class TwinKernel implements Kernel {
     if (count > 0) {
       this.resetExtremes(px[0], py[0]);
       this.gather(px, py, 0, count);
-      h = this.chain(useFilter);
+      if (useFilter) this.filterCandidates(0);
+      h = this.chain();
     }
     this.hullCount = h;
     const x = this.HX.slice(0, h), y = this.HY.slice(0, h);
