@@ -1,10 +1,10 @@
 // Commands only: parse arguments, call the library, print, choose the exit code.
 // Exit codes: 0 ok, 1 a check failed, 2 bad input or usage; a stopped run: 130 (SIGINT),
-143 (SIGTERM), 75 (--stop-after-blocks), each after writing a checkpoint.
+// 143 (SIGTERM), 75 (--stop-after-blocks), each after writing a checkpoint.
 
 import { parseArgs, type ParseArgsConfig } from "node:util";
-import { existsSync, rmSync, statSync } from "node:fs";
-import { dirname } from "node:path";
+import { existsSync, readFileSync, rmSync, statSync } from "node:fs";
+import { dirname, join } from "node:path";
 import { loadSuite, SuiteError } from "./suite/load.js";
 import type { LoadedSuite } from "./suite/schema.js";
 import { predict, renderPredictionTable } from "./theory/predict.js";
@@ -17,6 +17,12 @@ import type { SimulationResult } from "./run/types.js";
 import { toolVersion } from "./version.js";
 import { buildReport, toJson, writeAtomic } from "./report/json.js";
 import { resultsTable } from "./report/table.js";
+import { renderMarkdown } from "./report/markdown.js";
+import { renderHtml, type HtmlExtras } from "./report/html.js";
+import { renderJunit, reportJunit } from "./report/junit.js";
+import { DEFAULT_DIFF_ALPHA, DiffInputError, diffCases, diffReports, readDiffInput, renderDiff } from "./report/diff.js";
+import { samplesCsv } from "./report/samples.js";
+import { createKernel } from "./run/simulate.js";
 
 export const EXIT_OK = 0;
 export const EXIT_CHECK_FAILED = 1;
@@ -36,6 +42,8 @@ Usage:
   walkhull help [command]                  this text
 
   walkhull merge <shard.json>... --out F  combine shard results into one report (same bits as one run)
+  walkhull diff <baseline.json> <current.json> [--alpha A] [--junit FILE] [--statistical]
+                                           regression check of two reports (exit 1 on a significant change)
 
 run options:
   --paths N        override the suite's number of paths
@@ -49,6 +57,13 @@ run options:
   --resume         continue from the checkpoint; ends with the same bits as an uninterrupted run
   --stop-after-blocks K   stop after K blocks with a checkpoint (exit 75), for tests
   --kernel K       wasm (default) or twin (the plain-TypeScript twin; slow, for cross-checks)
+  --report DIR     also write DIR/report.json, DIR/report.md and DIR/report.html (run and merge)
+  --junit FILE     JUnit XML, one testcase per check (run, merge and diff)
+  --samples FILE   CSV of the kept per-path values: path, <measure>@<n>... (run and merge)
+
+diff: exact bit comparison when seed, suite hash and version match; otherwise two-sample z-tests
+of every mean and variance, Holm over the family at --alpha (default 0.01); --statistical forces
+the z-tests. Exit 0 no significant change, 1 a significant change, 2 unreadable or mismatched files.
 
 Exit codes: 0 ok, 1 a check failed, 2 bad input or usage; a stopped run: 130 (SIGINT),
 143 (SIGTERM), 75 (--stop-after-blocks), each after writing a checkpoint.
@@ -101,6 +116,30 @@ interface FinishOptions {
   quiet: boolean;
   withChecks: boolean;
   startedAt: Date;
+  /** --report DIR, --junit FILE, --samples FILE */
+  reportDir?: string;
+  junit?: string;
+  samples?: string;
+}
+
+/** --report/--junit/--samples: checked before any work, so bad paths write nothing. */
+function outputFlags(flags: Flags): { reportDir?: string; junit?: string; samples?: string } {
+  const reportDir = flags.report as string | undefined;
+  if (reportDir !== undefined && existsSync(reportDir) && !statSync(reportDir).isDirectory()) throw new UsageError(`--report: ${reportDir} exists and is not a directory`);
+  const junit = flags.junit as string | undefined;
+  checkOutPath(junit, "junit");
+  const samples = flags.samples as string | undefined;
+  checkOutPath(samples, "samples");
+  return { reportDir, junit, samples };
+}
+
+/** One sample path for the HTML report's geometry plot (the note says why when there is none). */
+function sampleGeometry(sim: SimulationResult): HtmlExtras {
+  try {
+    return { sample: sim.sample, geometry: createKernel(sim.suite).samplePath(0) };
+  } catch (e) {
+    return { sample: sim.sample, geometry: null, geometryNote: `No sample path: ${(e as Error).message}` };
+  }
 }
 
 /** Predictions, verdicts, the tables on stdout and the report file: shared by run and merge. */
@@ -119,8 +158,16 @@ function finish(sim: SimulationResult, opts: FinishOptions): number {
   ];
   if (verdicts) lines.push("", renderChecks(verdicts));
   if (opts.out) writeAtomic(opts.out, toJson(report));
+  if (opts.reportDir) {
+    writeAtomic(join(opts.reportDir, "report.json"), toJson(report));
+    writeAtomic(join(opts.reportDir, "report.md"), renderMarkdown(report));
+    writeAtomic(join(opts.reportDir, "report.html"), renderHtml(report, sampleGeometry(sim)));
+  }
+  if (opts.junit) writeAtomic(opts.junit, reportJunit(report));
+  if (opts.samples) writeAtomic(opts.samples, samplesCsv(suite, sim.sample));
   process.stdout.write(lines.join("\n") + "\n");
   if (opts.out) process.stdout.write(`report: ${opts.out}\n`);
+  if (opts.reportDir) process.stdout.write(`report files: ${join(opts.reportDir, "report.{json,md,html}")}\n`);
   return report.exitCode;
 }
 
@@ -143,6 +190,9 @@ async function cmdRun(args: string[]): Promise<number> {
     checkpoint: { type: "string" },
     resume: { type: "boolean" },
     "stop-after-blocks": { type: "string" },
+    report: { type: "string" },
+    junit: { type: "string" },
+    samples: { type: "string" },
   });
   const file = onePositional(positionals, "run");
   const out = flags.out as string | undefined;
@@ -156,6 +206,8 @@ async function cmdRun(args: string[]): Promise<number> {
   const shard = parseShard(flags.shard);
   if (shard && !out) throw new UsageError("--shard: give --out FILE for the shard result (merge them with walkhull merge)");
   const stopAfter = intFlag(flags, "stop-after-blocks");
+  const outputs = outputFlags(flags);
+  if (shard && (outputs.reportDir || outputs.junit || outputs.samples)) throw new UsageError("--report, --junit and --samples apply to full runs; merge the shards, then report");
   const suite = loadSuite(file, { paths, seed: intFlag(flags, "seed") });
   const checkpoint = (flags.checkpoint as string | undefined) ?? defaultCheckpoint(suite, out, shard);
   checkOutPath(checkpoint, "checkpoint");
@@ -187,17 +239,25 @@ async function cmdRun(args: string[]): Promise<number> {
     process.stdout.write(`shard ${shard.index}/${shard.count}: ${sim.blocks.length} blocks, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths -> ${out}\n`);
     code = EXIT_OK;
   } else {
-    code = finish(sim, { out, quiet, withChecks: !flags["no-checks"], startedAt });
+    code = finish(sim, { out, quiet, withChecks: !flags["no-checks"], startedAt, ...outputs });
   }
   rmSync(checkpoint, { force: true });
   return code;
 }
 
 async function cmdMerge(args: string[]): Promise<number> {
-  const { flags, positionals } = parse(args, { out: { type: "string" }, quiet: { type: "boolean" }, "no-checks": { type: "boolean" } });
+  const { flags, positionals } = parse(args, {
+    out: { type: "string" },
+    quiet: { type: "boolean" },
+    "no-checks": { type: "boolean" },
+    report: { type: "string" },
+    junit: { type: "string" },
+    samples: { type: "string" },
+  });
   if (positionals.length === 0) throw new UsageError("merge: give the shard result files (walkhull merge a.json b.json ... --out report.json)");
   const out = flags.out as string | undefined;
   checkOutPath(out, "out");
+  const outputs = outputFlags(flags);
   let sim: SimulationResult;
   try {
     sim = mergeShardFiles(positionals, toolVersion());
@@ -205,7 +265,43 @@ async function cmdMerge(args: string[]): Promise<number> {
     if (e instanceof MergeError) throw new UsageError(e.message);
     throw e;
   }
-  return finish(sim, { out, quiet: Boolean(flags.quiet), withChecks: !flags["no-checks"], startedAt: new Date() });
+  return finish(sim, { out, quiet: Boolean(flags.quiet), withChecks: !flags["no-checks"], startedAt: new Date(), ...outputs });
+}
+
+function readReportFile(path: string, label: string): unknown {
+  let text: string;
+  try {
+    text = readFileSync(path, "utf8");
+  } catch (e) {
+    throw new UsageError(`${label}: cannot read ${path}: ${(e as Error).message}`);
+  }
+  try {
+    return JSON.parse(text);
+  } catch (e) {
+    throw new UsageError(`${label}: ${path} is not valid JSON (${(e as Error).message})`);
+  }
+}
+
+async function cmdDiff(args: string[]): Promise<number> {
+  const { flags, positionals } = parse(args, { alpha: { type: "string" }, junit: { type: "string" }, statistical: { type: "boolean" } });
+  if (positionals.length !== 2) throw new UsageError(`diff: expected two report files, baseline and current (got ${positionals.length})`);
+  const a = flags.alpha === undefined ? DEFAULT_DIFF_ALPHA : Number(flags.alpha);
+  if (!(a > 0 && a < 1)) throw new UsageError(`--alpha: expected a number in (0, 1), got ${JSON.stringify(flags.alpha)}`);
+  const junit = flags.junit as string | undefined;
+  checkOutPath(junit, "junit");
+  let result;
+  try {
+    const baseline = readDiffInput(readReportFile(positionals[0], "baseline"), "baseline");
+    const current = readDiffInput(readReportFile(positionals[1], "current"), "current");
+    result = diffReports(baseline, current, { alpha: a, statistical: Boolean(flags.statistical) });
+  } catch (e) {
+    if (e instanceof DiffInputError) throw new UsageError(e.message);
+    throw e;
+  }
+  process.stdout.write(renderDiff(result) + "\n");
+  if (junit) writeAtomic(junit, renderJunit("walkhull diff", [{ name: `diff ${positionals[0]} ${positionals[1]}`, cases: diffCases(result) }]));
+  if (result.exitCode === 2) process.stderr.write("walkhull: diff: the reports do not cover the same measures and n (listed above)\n");
+  return result.exitCode;
 }
 
 async function cmdPredict(args: string[]): Promise<number> {
@@ -226,6 +322,8 @@ export async function main(argv: string[]): Promise<number> {
         return await cmdPredict(rest);
       case "merge":
         return await cmdMerge(rest);
+      case "diff":
+        return await cmdDiff(rest);
       case undefined:
       case "help":
       case "--help":
@@ -233,7 +331,7 @@ export async function main(argv: string[]): Promise<number> {
         process.stdout.write(HELP + "\n");
         return cmd === undefined ? EXIT_BAD_INPUT : EXIT_OK;
       default:
-        throw new UsageError(`unknown command ${JSON.stringify(cmd)} (commands: run, predict, merge, help)`);
+        throw new UsageError(`unknown command ${JSON.stringify(cmd)} (commands: run, predict, merge, diff, help)`);
     }
   } catch (e) {
     if (e instanceof SuiteError || e instanceof UsageError) {
