@@ -5,7 +5,8 @@
 // arithmetic and fast robust geometric predicates", DCG 18 (1997)): the same three-stage
 // structure (differences, products, difference) so ccwerrboundA applies. Fallback: the eight
 // products expanded exactly (Dekker's two-product) and summed into a nonoverlapping expansion
-// (Shewchuk's grow-expansion); its sign is the sign of its largest nonzero component.
+// (Shewchuk's grow-expansion); its sign is the sign of its largest nonzero component. Exact as
+// long as no product underflows (|products| above ~1e-290) or overflows.
 const EPS: f64 = 1.1102230246251565e-16;
 const CCW_ERRBOUND_A: f64 = (3.0 + 16.0 * EPS) * EPS;
 const SPLITTER: f64 = 134217729.0; // 2^27 + 1
