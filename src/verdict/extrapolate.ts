@@ -61,9 +61,31 @@ export function extrapolate(s: ScaledSeries): Extrapolation {
   const y = Array.from(jk.estimate);
   const se = Array.from({ length: G }, (_, g) => Math.sqrt(jk.covariance[g * G + g]));
   const ratios = s.n.map((n, g) => ({ n, value: y[g], standardError: se[g] }));
+  // Grid points with no spread (e.g. a vertex count that is constant at tiny n) carry no
+  // information and make the covariance singular: they are left out of the fits, and said so.
+  const keep = s.n.map((_, g) => g).filter((g) => Number.isFinite(y[g]) && se[g] > 0);
+  const dropped = s.n.filter((_, g) => !keep.includes(g));
+  const droppedNote = dropped.length ? ` (n = ${dropped.join(", ")} left out: no spread)` : "";
+  if (keep.length === 0) {
+    const last = G - 1;
+    const limit: LimitEstimate = { measure: s.measure, quantity: s.quantity, scaling: s.scaling, level: LEVEL, ratios, method: "none", estimate: y[last], standardError: se[last], ci: null, beta: null, betaInterval: null, misfitPValue: null, sensitivity: [], note: "no grid point has any spread: nothing to extrapolate" };
+    return { limit, testable: false, test: () => ({ statistic: NaN, pValue: NaN, minPValue: NaN, statisticKind: "z" }) };
+  }
+  return fitKept(s, keep.map((g) => s.n[g]), keep.map((g) => y[g]), keep.map((g) => se[g]), subMatrix(jk.covariance, G, keep), B, ratios, droppedNote);
+}
+
+function subMatrix(c: Float64Array, d: number, keep: number[]): Float64Array {
+  const k = keep.length;
+  const out = new Float64Array(k * k);
+  for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) out[i * k + j] = c[keep[i] * d + keep[j]];
+  return out;
+}
+
+function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: Float64Array, B: number, ratios: LimitEstimate["ratios"], droppedNote: string): Extrapolation {
+  const G = nK.length;
   const z = normalQuantile(1 - (1 - LEVEL) / 2);
   const base = { measure: s.measure, quantity: s.quantity, scaling: s.scaling, level: LEVEL, ratios };
-  const what = s.quantity === "varianceLimit" ? `Var/n^${s.scaling}` : `mean/n^${s.scaling}`;
+  const what = (s.quantity === "varianceLimit" ? `Var/n^${s.scaling}` : `mean/n^${s.scaling}`) + droppedNote;
 
   const none = (note: string): Extrapolation => {
     const last = G - 1;
@@ -77,15 +99,14 @@ export function extrapolate(s: ScaledSeries): Extrapolation {
       },
     };
   };
-  if (G <= 2) return none(`${what} at the largest n = ${s.n[G - 1]} only (${G} grid point${G > 1 ? "s" : ""}: no extrapolation; the finite-n bias is unknown)`);
+  if (G <= 2) return none(`${what} at the largest n = ${nK[G - 1]} only (${G} grid point${G > 1 ? "s" : ""}: no extrapolation; the finite-n bias is unknown)`);
   if (B < G + 3) return none(`${B} blocks cannot estimate the ${G}x${G} covariance of the grid (need >= ${G + 3}); ratio at the largest n only, bias unknown`);
 
-  const cov = jk.covariance;
   const opts = { blocks: B, level: LEVEL };
 
   if (s.quantity === "meanGrowth" && s.measure === "perimeter" && s.scaling === 1) {
     const design: number[] = [];
-    for (const n of s.n) design.push(1, Math.log(n) / n, 1 / n);
+    for (const n of nK) design.push(1, Math.log(n) / n, 1 / n);
     let fit;
     try {
       fit = linearGls(y, design, 3, weightMatrix(cov, G, B));
@@ -109,10 +130,10 @@ export function extrapolate(s: ScaledSeries): Extrapolation {
     };
   }
 
-  if (gridIdentifiesRate(s.n)) {
+  if (gridIdentifiesRate(nK)) {
     let fit;
     try {
-      fit = fitPowerLawProfile(s.n, y, cov, opts);
+      fit = fitPowerLawProfile(nK, y, cov, opts);
     } catch (e) {
       return none(`rate fit impossible (${(e as Error).message}); ratio at the largest n only, bias unknown`);
     }
@@ -123,7 +144,7 @@ export function extrapolate(s: ScaledSeries): Extrapolation {
       },
       testable: true,
       test: (v) => {
-        const t = profileTest(s.n, y, cov, v, opts);
+        const t = profileTest(nK, y, cov, v, opts);
         return { statistic: t.statistic, pValue: t.pValue, minPValue: t.pValue, statisticKind: "profile-LR" };
       },
     };
@@ -132,7 +153,7 @@ export function extrapolate(s: ScaledSeries): Extrapolation {
   const rates = Array.from(new Set([s.expectedRate, ...SENSITIVITY_RATES]));
   let fits;
   try {
-    fits = rates.map((b) => fitPowerLawFixed(s.n, y, cov, b, opts));
+    fits = rates.map((b) => fitPowerLawFixed(nK, y, cov, b, opts));
   } catch (e) {
     return none(`fixed-rate fit impossible (${(e as Error).message}); ratio at the largest n only, bias unknown`);
   }

@@ -142,6 +142,20 @@ describe("evaluateChecks on coarse grids", () => {
     }
   });
 
+  it("grid points with no spread are left out of the fit, and the note says so", () => {
+    const grid = [1, 10, 32, 100, 316, 1000];
+    const vertices = (rng: () => number, g: number[], out: Float64Array) => {
+      driftPerimeter(1, 0, 0, 0, 0)(rng, g, out);
+      out[0] = 2; // like the vertex count of a one-step walk: always 2
+    };
+    const sim = synthesise({ ...base, seed: "spread", grid, generators: { vertices } });
+    const r = evaluateChecks(sim, { measures: [] });
+    const lim = r.limits.find((l) => l.measure === "vertices" && l.quantity === "varianceLimit")!;
+    expect(lim.note).toMatch(/n = 1 left out: no spread/);
+    expect(lim.method).toBe("profile");
+    expect(lim.ratios).toHaveLength(6);
+  });
+
   it("bad claims get errors naming the field", () => {
     const sim = synthesise({ ...base, seed: "bad", grid: [100, 1000], claims: [{ measure: "perimeter", n: 500, mean: 1 }] });
     expect(() => evaluateChecks(sim, prediction)).toThrow(/^claims\[0\]\.n: 500 is not on the suite's grid/);
