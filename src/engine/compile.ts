@@ -97,6 +97,13 @@ export function compileWalk(law: StepLaw): CompiledWalk {
   }
 }
 
+/** Packs all walks; errors name the walk (`walks[i].field: ...`). */
 export function compileWalks(laws: readonly StepLaw[]): CompiledWalk[] {
-  return laws.map(compileWalk);
+  return laws.map((law, i) => {
+    try {
+      return compileWalk(law);
+    } catch (err) {
+      throw new Error(`walks[${i}].${(err as Error).message}`);
+    }
+  });
 }
