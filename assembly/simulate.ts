@@ -4,8 +4,8 @@
 // points of their walk's segment; the survivors are sorted and chained (hull(prefix n_g) = hull(hull(prefix n_{g-1}) +
 // new points)). All buffers are allocated once in setup and reused for every path.
 
-import { nextSubstream, seedBlockStream } from "./rng";
-import { drawStepsInto } from "./laws";
+import { fillNormals, nextSubstream, seedBlockStream } from "./rng";
+import { drawStepsInto, LAW_GAUSSIAN } from "./laws";
 import { monotoneChain, sortPoints } from "./hull";
 import { area, diameter, perimeter } from "./measures";
 
@@ -174,9 +174,11 @@ export function filterCandidates(start: i32): i32 {
     load<f64>(polyY + (<usize>(polyN - 1) << 3)) == load<f64>(polyY)) polyN--;
   const m = polyN;
   if (m < 3) return count;
-  for (let e = 0; e < m; e++) {
-    const f = e + 1 == m ? 0 : e + 1;
-    const ax = load<f64>(polyX + (<usize>e << 3)), ay = load<f64>(polyY + (<usize>e << 3));
+  for (let e = 0; e < 8; e++) {
+    // Edges beyond m repeat edge 0: the same constraint twice, so the test stays unrolled.
+    const e0 = e < m ? e : 0;
+    const f = e0 + 1 == m ? 0 : e0 + 1;
+    const ax = load<f64>(polyX + (<usize>e0 << 3)), ay = load<f64>(polyY + (<usize>e0 << 3));
     const bx = load<f64>(polyX + (<usize>f << 3)), by = load<f64>(polyY + (<usize>f << 3));
     const exx = bx - ax, eyy = by - ay;
     const c = exx * ay - eyy * ax;
@@ -185,15 +187,21 @@ export function filterCandidates(start: i32): i32 {
     store<f64>(EDGES + (<usize>(3 * e + 1) << 3), eyy);
     store<f64>(EDGES + (<usize>(3 * e + 2) << 3), c + eps);
   }
+  const a0 = load<f64>(EDGES), b0 = load<f64>(EDGES + 8), c0 = load<f64>(EDGES + 16);
+  const a1 = load<f64>(EDGES + 24), b1 = load<f64>(EDGES + 32), c1 = load<f64>(EDGES + 40);
+  const a2 = load<f64>(EDGES + 48), b2 = load<f64>(EDGES + 56), c2 = load<f64>(EDGES + 64);
+  const a3 = load<f64>(EDGES + 72), b3 = load<f64>(EDGES + 80), c3 = load<f64>(EDGES + 88);
+  const a4 = load<f64>(EDGES + 96), b4 = load<f64>(EDGES + 104), c4 = load<f64>(EDGES + 112);
+  const a5 = load<f64>(EDGES + 120), b5 = load<f64>(EDGES + 128), c5 = load<f64>(EDGES + 136);
+  const a6 = load<f64>(EDGES + 144), b6 = load<f64>(EDGES + 152), c6 = load<f64>(EDGES + 160);
+  const a7 = load<f64>(EDGES + 168), b7 = load<f64>(EDGES + 176), c7 = load<f64>(EDGES + 184);
   let w = start;
   for (let i = start; i < count; i++) {
     const x = load<f64>(CX + (<usize>i << 3));
     const y = load<f64>(CY + (<usize>i << 3));
-    let inside = true;
-    for (let e = 0; e < m; e++) {
-      const o = EDGES + (<usize>(3 * e) << 3);
-      if (!(load<f64>(o) * y - load<f64>(o + 8) * x > load<f64>(o + 16))) { inside = false; break; }
-    }
+    const inside =
+      a0 * y - b0 * x > c0 && a1 * y - b1 * x > c1 && a2 * y - b2 * x > c2 && a3 * y - b3 * x > c3 &&
+      a4 * y - b4 * x > c4 && a5 * y - b5 * x > c5 && a6 * y - b6 * x > c6 && a7 * y - b7 * x > c7;
     if (!inside) {
       store<f64>(CX + (<usize>w << 3), x);
       store<f64>(CY + (<usize>w << 3), y);
@@ -234,7 +242,19 @@ export function runPath(out: usize): void {
   for (let q = 0; q < 5 * G * K; q++) store<f64>(SEG + (<usize>q << 3), 0.0);
   for (let j = 0; j < K; j++) {
     nextSubstream();
-    drawStepsInto(load<i32>(codesPtr + (<usize>j << 2)), load<usize>(paramsPtr + (<usize>j << 3)), N, SX, SY, NZ);
+    const code = load<i32>(codesPtr + (<usize>j << 2));
+    const params = load<usize>(paramsPtr + (<usize>j << 3));
+    // Gaussian steps are formed from the normals inside the position loop (one pass fewer),
+    // with the same arithmetic as drawStepsInto.
+    const gauss = code == LAW_GAUSSIAN;
+    let mx = 0.0, my = 0.0, l11 = 0.0, l21 = 0.0, l22 = 0.0;
+    if (gauss) {
+      fillNormals(NZ, N << 1);
+      mx = load<f64>(params); my = load<f64>(params + 8);
+      l11 = load<f64>(params + 16); l21 = load<f64>(params + 24); l22 = load<f64>(params + 32);
+    } else {
+      drawStepsInto(code, params, N, SX, SY, NZ);
+    }
     const px = PX + (<usize>(j * stride) << 3), py = PY + (<usize>(j * stride) << 3);
     let x = 0.0, y = 0.0;
     store<f64>(px, 0.0);
@@ -244,8 +264,15 @@ export function runPath(out: usize): void {
     for (let g = 0; g < G; g++) {
       const hi = gridAt(g);
       for (; i < hi; i++) {
-        x += load<f64>(SX + (<usize>i << 3));
-        y += load<f64>(SY + (<usize>i << 3));
+        if (gauss) {
+          const z1 = load<f64>(NZ + (<usize>i << 4));
+          const z2 = load<f64>(NZ + (<usize>i << 4) + 8);
+          x += mx + l11 * z1;
+          y += my + (l21 * z1 + l22 * z2);
+        } else {
+          x += load<f64>(SX + (<usize>i << 3));
+          y += load<f64>(SY + (<usize>i << 3));
+        }
         store<f64>(px + (<usize>(i + 1) << 3), x);
         store<f64>(py + (<usize>(i + 1) << 3), y);
         sx += x; sy += y; sxx += x * x; sxy += x * y; syy += y * y;
