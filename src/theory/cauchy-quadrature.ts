@@ -56,7 +56,9 @@ function ccRule(N: number): { x: Float64Array; w: Float64Array } {
   }
   return { x, w };
 }
-const CC16 = ccRule(16), CC8 = ccRule(8);
+const GROW = 2.5; // panel growth ratio away from a near-kink
+const NCC = 12; // Clenshaw–Curtis order (nested with NCC / 2)
+const CC16 = ccRule(NCC), CC8 = ccRule(NCC / 2);
 
 /** Angular panels graded towards each breakpoint (angle, width). */
 function angularPanels(breaks: { t: number; width: number }[]): [number, number][] {
@@ -80,10 +82,10 @@ function angularPanels(breaks: { t: number; width: number }[]): [number, number]
     const B = i + 1 < merged.length ? merged[i + 1].t : merged[0].t + TWO_PI;
     const mid = (A + B) / 2;
     const left: number[] = [A];
-    for (let d = merged[i].width; A + d < mid; d *= 2) left.push(A + d);
+    for (let d = merged[i].width; A + d < mid; d *= GROW) left.push(A + d);
     const right: number[] = [B];
     const wB = i + 1 < merged.length ? merged[i + 1].width : merged[0].width;
-    for (let d = wB; B - d > mid; d *= 2) right.push(B - d);
+    for (let d = wB; B - d > mid; d *= GROW) right.push(B - d);
     const pts = [...left, mid, ...right.reverse()];
     // Cap panel length at pi/4.
     for (let j = 0; j + 1 < pts.length; j++) {
@@ -198,10 +200,12 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
   // Time one evaluation at the largest n, then keep the largest n that fits the budget.
   const panelsFor = (n: number) => angularPanels(breakpoints(walks, n)).length;
   const t0 = performance.now();
-  expectedMaxAtAngle(walks, 0.3, [kept[kept.length - 1]], h);
-  const perEval = secondsSince(t0);
+  expectedMaxAtAngle(walks, 0.3, kept, h); // warm-up (JIT), then time one evaluation
+  const t1 = performance.now();
+  expectedMaxAtAngle(walks, 1.1, kept, h);
+  const perEval = Math.min(secondsSince(t1), secondsSince(t0) / 2);
   const nTop = kept[kept.length - 1];
-  const estimate = (n: number) => perEval * Math.pow(n / nTop, 1.5) * (16 * panelsFor(n) + 1) * 1.15;
+  const estimate = (n: number) => perEval * Math.pow(n / nTop, 1.5) * NCC * panelsFor(n) * 1.1;
   while (kept.length > 0 && estimate(kept[kept.length - 1]) > budget - secondsSince(start)) {
     const n = kept.pop()!;
     reasons.push(
@@ -216,7 +220,7 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
   for (const [a, b] of panels) {
     const half = (b - a) / 2, mid = (a + b) / 2;
     const fine = kept.map(() => 0), crude = kept.map(() => 0);
-    for (let j = 0; j <= 16; j++) {
+    for (let j = 0; j <= NCC; j++) {
       const t = mid + half * CC16.x[j];
       const { values, recursionError } = expectedMaxAtAngle(walks, t, kept, h);
       angles++;

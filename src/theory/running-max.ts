@@ -109,7 +109,9 @@ export function runningMaxLaw(r: number, ns: number[], opts: GridOptions = {}): 
   }
   // saved[j] holds u_{ns[j]-1}; one more kernel application gives u_{ns[j]} anywhere.
   const cdf = (idx: number, y: number): number => {
-    const { u, lo: l } = saved[idx];
+    const { u, lo: l, hi: hh } = saved[idx];
+    // Past the support the cdf is 1 to 1e-13 (and the grid may end there).
+    if (y >= z[Math.min(hh, N - 1)] + r + TAIL) return 1;
     const b0 = Math.max(l, firstAtLeast(y - r - TAIL)), b1 = Math.min(N, firstAtLeast(y - r + TAIL));
     let s = 0;
     for (let b = b0; b < b1; b++) {
