@@ -23,7 +23,7 @@ export async function loadWasmModule(): Promise<WebAssembly.Module> {
   } catch (err) {
     throw missing(err);
   }
-  return WebAssembly.compile(bytes);
+  return WebAssembly.compile(new Uint8Array(bytes));
 }
 
 export function loadWasmModuleSync(): WebAssembly.Module {
@@ -33,7 +33,7 @@ export function loadWasmModuleSync(): WebAssembly.Module {
   } catch (err) {
     throw missing(err);
   }
-  return new WebAssembly.Module(bytes);
+  return new WebAssembly.Module(new Uint8Array(bytes));
 }
 
 /** The raw exports of assembly/index.ts (pointers are byte offsets into memory). */
