@@ -19,11 +19,18 @@ import { ksNormalDistance, meanSd } from "../stats/lilliefors.js";
 import { normalQuantile } from "../stats/normal.js";
 import type { MeasurePrediction } from "../theory/types.js";
 import type { LimitEstimate } from "../verdict/types.js";
-import { axes, clip, errorBars, escapeXml, fmt, legend, padDomain, pathD, points, scales, svgPlot, type Frame } from "./svg.js";
+import { axes, bottomMargin, clip, errorBars, escapeXml, fmt, legend, LEGEND_ROW, padDomain, pathD, points, scales, svgPlot, type Frame } from "./svg.js";
 
 const Z95 = 1.959963984540054;
 
-const frame = (x: Frame["x"], y: Frame["y"], width = 460, height = 300): Frame => ({ width, height, margin: { top: 14, right: 14, bottom: 40, left: 62 }, x, y });
+/** A frame with a plotting area of about width x height and room below for `rows` legend rows. */
+const frame = (x: Frame["x"], y: Frame["y"], rows: number, width = 460, height = 300): Frame => ({
+  width,
+  height: height + LEGEND_ROW * rows,
+  margin: { top: 14, right: 14, bottom: bottomMargin(rows), left: 62 },
+  x,
+  y,
+});
 
 export interface VarianceSeries {
   measure: string;
@@ -85,7 +92,8 @@ export function varianceRatioSvg(s: VarianceSeries): string {
   if (s.limit?.ci) ys.push(...s.limit.ci);
   else if (s.limit) ys.push(s.limit.estimate);
   const xdom = padDomain(ns, 0.08, "log");
-  const f = frame({ kind: "log", domain: xdom, label: "n (log scale)" }, { kind: "linear", domain: padDomain(ys), label: `Var(${s.measure}_n) / n^${fmt(s.scaling)}` });
+  const rows = 1 + (s.limit?.ci ? 1 : 0) + (s.fitted ? 1 : 0) + (s.predicted !== null ? 1 : 0);
+  const f = frame({ kind: "log", domain: xdom, label: "n (log scale)" }, { kind: "linear", domain: padDomain(ys), label: `Var(${s.measure}_n) / n^${fmt(s.scaling)}` }, rows);
   const sc = scales(f);
   const id = `clip-var-${s.measure}`;
   const body: string[] = [`<defs>${clip(id, f)}</defs>`, axes(sc), `<g clip-path="url(#${id})">`];
@@ -151,7 +159,7 @@ export function qqData(x: ArrayLike<number>, maxPoints = 400): QQData {
 
 export function qqSvg(measure: string, n: number, d: QQData): string {
   const lim = padDomain([...d.theoretical, ...d.observed]);
-  const f = frame({ kind: "linear", domain: lim, label: "standard normal quantile" }, { kind: "linear", domain: lim, label: `standardised ${measure} quantile` }, 340, 300);
+  const f = frame({ kind: "linear", domain: lim, label: "standard normal quantile" }, { kind: "linear", domain: lim, label: `standardised ${measure} quantile` }, 2, 340, 300);
   const sc = scales(f);
   const id = `clip-qq-${measure}`;
   const body = [
@@ -212,7 +220,7 @@ export function histogramSvg(measure: string, n: number, h: HistogramData): stri
   const zs = Array.from({ length: 121 }, (_, i) => -4 + (8 * i) / 120);
   const phi = zs.map((z) => Math.exp((-z * z) / 2) / Math.sqrt(2 * Math.PI));
   const xdom = padDomain([...h.edges, -3.5, 3.5], 0.02);
-  const f = frame({ kind: "linear", domain: xdom, label: `standardised ${measure} at n = ${n}` }, { kind: "linear", domain: [0, Math.max(0.45, ...h.density) * 1.08], label: "density" }, 380, 300);
+  const f = frame({ kind: "linear", domain: xdom, label: `standardised ${measure} at n = ${n}` }, { kind: "linear", domain: [0, Math.max(0.45, ...h.density) * 1.08], label: "density" }, 2, 380, 300);
   const sc = scales(f);
   const id = `clip-hist-${measure}`;
   const bars = h.density
@@ -273,7 +281,7 @@ export function ksSvg(measure: string, s: KsSeries): string {
   const ok = s.points.filter((p) => Number.isFinite(p.distance) && p.distance > 0);
   const xdom = padDomain(s.points.map((p) => p.n), 0.08, "log");
   const ydom = padDomain([...ok.map((p) => p.distance), s.floor], 0.1, "log");
-  const f = frame({ kind: "log", domain: xdom, label: "n (log scale)" }, { kind: "log", domain: ydom, label: "KS distance to the fitted normal" });
+  const f = frame({ kind: "log", domain: xdom, label: "n (log scale)" }, { kind: "log", domain: ydom, label: "KS distance to the fitted normal" }, s.fit ? 3 : 2);
   const sc = scales(f);
   const id = `clip-ks-${measure}`;
   const body = [`<defs>${clip(id, f)}</defs>`, axes(sc), `<g clip-path="url(#${id})">`];
@@ -304,7 +312,14 @@ export function hullSvg(g: PathGeometry, maxPerWalk = 3000): string {
   const ys: number[] = [];
   for (const p of g.points) for (let i = 0; i < p.length; i += 2) (xs.push(p[i]), ys.push(p[i + 1]));
   for (let i = 0; i < g.hull.length; i += 2) (xs.push(g.hull[i]), ys.push(g.hull[i + 1]));
-  const f: Frame = { width: 460, height: 400, margin: { top: 14, right: 14, bottom: 40, left: 62 }, x: { kind: "linear", domain: padDomain(xs), label: "x" }, y: { kind: "linear", domain: padDomain(ys), label: "y" }, equalAspect: true };
+  // Equal units on both axes; the frame's height follows the cloud's aspect ratio (a drifting
+  // walk is a long thin needle) within [160, 560] pixels of plotting area.
+  const xd = padDomain(xs);
+  const yd = padDomain(ys);
+  const plotW = 840;
+  const plotH = Math.max(160, Math.min(560, (plotW * (yd[1] - yd[0])) / (xd[1] - xd[0])));
+  const rows = g.points.length + 1;
+  const f: Frame = { width: plotW + 76, height: plotH + 14 + bottomMargin(rows), margin: { top: 14, right: 14, bottom: bottomMargin(rows), left: 62 }, x: { kind: "linear", domain: xd, label: "x" }, y: { kind: "linear", domain: yd, label: "y" }, equalAspect: true };
   const sc = scales(f);
   const body = [axes(sc)];
   g.points.forEach((p, j) => {

@@ -128,7 +128,7 @@ export function axes(s: Scales): string {
   out.push(`<line x1="${left}" x2="${left}" y1="${margin.top}" y2="${bottom}"/>`);
   for (const t of xt) out.push(`<text x="${r2(sx(t))}" y="${bottom + 15}" text-anchor="middle">${escapeXml(fmt(t))}</text>`);
   for (const t of yt) out.push(`<text x="${left - 5}" y="${r2(sy(t)) + 4}" text-anchor="end">${escapeXml(fmt(t))}</text>`);
-  out.push(`<text class="label" x="${(left + width - margin.right) / 2}" y="${height - 6}" text-anchor="middle">${escapeXml(frame.x.label)}</text>`);
+  out.push(`<text class="label" x="${(left + width - margin.right) / 2}" y="${bottom + 32}" text-anchor="middle">${escapeXml(frame.x.label)}</text>`);
   out.push(`<text class="label" transform="translate(13 ${(margin.top + bottom) / 2}) rotate(-90)" text-anchor="middle">${escapeXml(frame.y.label)}</text>`);
   out.push(`</g>`);
   return out.join("");
@@ -174,17 +174,23 @@ export function errorBars(s: Scales, bars: { x: number; lo: number; hi: number }
     .join("");
 }
 
-/** A legend: rows of (css class of the swatch, swatch kind, text), top-right of the frame. */
+/** Room below the x axis for its label and `rows` legend rows (legends never cover the data). */
+export const LEGEND_ROW = 14;
+export function bottomMargin(rows: number): number {
+  return 44 + LEGEND_ROW * rows;
+}
+
+/** A legend below the x-axis label: rows of (css class of the swatch, swatch kind, text). */
 export function legend(f: Frame, rows: { cls: string; kind: "line" | "band" | "dot"; text: string }[]): string {
-  const x = f.margin.left + 8;
-  let y = f.margin.top + 12;
+  const x = 8;
+  let y = f.height - f.margin.bottom + 44 + 10;
   const out: string[] = [`<g class="legend">`];
   for (const r of rows) {
     if (r.kind === "line") out.push(`<line class="${r.cls}" x1="${x}" x2="${x + 18}" y1="${y - 4}" y2="${y - 4}"/>`);
     else if (r.kind === "band") out.push(`<rect class="${r.cls}" x="${x}" y="${y - 9}" width="18" height="9"/>`);
     else out.push(`<rect class="${r.cls} swatch" x="${x + 5}" y="${y - 8}" width="7" height="7" rx="3.5"/>`);
     out.push(`<text x="${x + 24}" y="${y}">${escapeXml(r.text)}</text>`);
-    y += 14;
+    y += LEGEND_ROW;
   }
   out.push(`</g>`);
   return out.join("");
