@@ -61,7 +61,7 @@ function crossSignExact(ax: f64, ay: f64, bx: f64, by: f64, cx: f64, cy: f64, dx
 }
 
 /** Exact sign of cross(a - b, c - d). */
-export function crossSign(ax: f64, ay: f64, bx: f64, by: f64, cx: f64, cy: f64, dx: f64, dy: f64): i32 {
+@inline export function crossSign(ax: f64, ay: f64, bx: f64, by: f64, cx: f64, cy: f64, dx: f64, dy: f64): i32 {
   const l = (ax - bx) * (cy - dy);
   const r = (ay - by) * (cx - dx);
   const det = l - r;

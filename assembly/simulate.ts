@@ -75,7 +75,6 @@ export function seedBlock(seed: u64, block: u64): void {
 
 // ---- Extremes in 8 directions of a normalised frame x' = fa x, y' = fb x + fc y.
 let fa: f64 = 1, fb: f64 = 0, fc: f64 = 1;
-let eU0: f64 = 0, eS1: f64 = 0, eV2: f64 = 0, eD3: f64 = 0, eU4: f64 = 0, eS5: f64 = 0, eV6: f64 = 0, eD7: f64 = 0;
 let ex0: f64 = 0, ey0: f64 = 0, ex1: f64 = 0, ey1: f64 = 0, ex2: f64 = 0, ey2: f64 = 0, ex3: f64 = 0, ey3: f64 = 0;
 let ex4: f64 = 0, ey4: f64 = 0, ex5: f64 = 0, ey5: f64 = 0, ex6: f64 = 0, ey6: f64 = 0, ex7: f64 = 0, ey7: f64 = 0;
 let absX: f64 = 0, absY: f64 = 0;
@@ -103,43 +102,54 @@ export function setFrame(cnt: f64, sx: f64, sy: f64, sxx: f64, sxy: f64, syy: f6
   fc = 1.0 / l22;
 }
 
-/** Starts a candidate list with its first point (initialises the extremes). */
-function resetExtremes(x: f64, y: f64): void {
-  const u = fa * x, v = fb * x + fc * y;
-  const s = u + v, d = u - v;
-  eU0 = u; eU4 = u; eS1 = s; eS5 = s; eV2 = v; eV6 = v; eD3 = d; eD7 = d;
-  ex0 = x; ex1 = x; ex2 = x; ex3 = x; ex4 = x; ex5 = x; ex6 = x; ex7 = x;
-  ey0 = y; ey1 = y; ey2 = y; ey3 = y; ey4 = y; ey5 = y; ey6 = y; ey7 = y;
-  absX = Math.abs(x);
-  absY = Math.abs(y);
+@inline function ldx(src: usize, i: i32): f64 {
+  return load<f64>(src + (<usize>i << 3));
 }
 
-/** Appends src[from..to) to the candidates, updating the extremes and max |x|, |y|. */
-function gather(srcX: usize, srcY: usize, from: i32, to: i32): void {
-  let u0 = eU0, s1 = eS1, v2 = eV2, d3 = eD3, u4 = eU4, s5 = eS5, v6 = eV6, d7 = eD7;
-  let mxa = absX, mya = absY;
+/**
+ * Appends src[from..to) (to > from) to the candidates and finds, in the current frame, the first
+ * point of largest u = x', u + v, v, -(u - v), -u, -(u + v), -v, u - v (v = y'), and max |x|, |y|.
+ * Branch-free updates (a drifting walk sets a new maximum almost every step).
+ */
+function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
   const a = fa, b = fb, c = fc;
+  let x = ldx(srcX, from), y = ldx(srcY, from);
+  let u0 = a * x, v2 = b * x + c * y;
+  let s1 = u0 + v2, d7 = u0 - v2;
+  let u4 = u0, s5 = s1, v6 = v2, d3 = d7;
+  let i0 = from, i1 = from, i2 = from, i3 = from, i4 = from, i5 = from, i6 = from, i7 = from;
+  let mxa = Math.abs(x), mya = Math.abs(y);
   let w = candCount;
-  for (let i = from; i < to; i++) {
-    const x = load<f64>(srcX + (<usize>i << 3));
-    const y = load<f64>(srcY + (<usize>i << 3));
+  store<f64>(CX + (<usize>w << 3), x);
+  store<f64>(CY + (<usize>w << 3), y);
+  w++;
+  for (let i = from + 1; i < to; i++) {
+    x = ldx(srcX, i);
+    y = ldx(srcY, i);
     store<f64>(CX + (<usize>w << 3), x);
     store<f64>(CY + (<usize>w << 3), y);
     w++;
     const u = a * x, v = b * x + c * y;
     const s = u + v, d = u - v;
-    if (u > u0) { u0 = u; ex0 = x; ey0 = y; }
-    if (u < u4) { u4 = u; ex4 = x; ey4 = y; }
-    if (s > s1) { s1 = s; ex1 = x; ey1 = y; }
-    if (s < s5) { s5 = s; ex5 = x; ey5 = y; }
-    if (v > v2) { v2 = v; ex2 = x; ey2 = y; }
-    if (v < v6) { v6 = v; ex6 = x; ey6 = y; }
-    if (d < d3) { d3 = d; ex3 = x; ey3 = y; }
-    if (d > d7) { d7 = d; ex7 = x; ey7 = y; }
+    let t = u > u0; u0 = select<f64>(u, u0, t); i0 = select<i32>(i, i0, t);
+    t = u < u4; u4 = select<f64>(u, u4, t); i4 = select<i32>(i, i4, t);
+    t = s > s1; s1 = select<f64>(s, s1, t); i1 = select<i32>(i, i1, t);
+    t = s < s5; s5 = select<f64>(s, s5, t); i5 = select<i32>(i, i5, t);
+    t = v > v2; v2 = select<f64>(v, v2, t); i2 = select<i32>(i, i2, t);
+    t = v < v6; v6 = select<f64>(v, v6, t); i6 = select<i32>(i, i6, t);
+    t = d < d3; d3 = select<f64>(d, d3, t); i3 = select<i32>(i, i3, t);
+    t = d > d7; d7 = select<f64>(d, d7, t); i7 = select<i32>(i, i7, t);
     mxa = max(mxa, Math.abs(x));
     mya = max(mya, Math.abs(y));
   }
-  eU0 = u0; eS1 = s1; eV2 = v2; eD3 = d3; eU4 = u4; eS5 = s5; eV6 = v6; eD7 = d7;
+  ex0 = ldx(srcX, i0); ey0 = ldx(srcY, i0);
+  ex1 = ldx(srcX, i1); ey1 = ldx(srcY, i1);
+  ex2 = ldx(srcX, i2); ey2 = ldx(srcY, i2);
+  ex3 = ldx(srcX, i3); ey3 = ldx(srcY, i3);
+  ex4 = ldx(srcX, i4); ey4 = ldx(srcY, i4);
+  ex5 = ldx(srcX, i5); ey5 = ldx(srcY, i5);
+  ex6 = ldx(srcX, i6); ey6 = ldx(srcY, i6);
+  ex7 = ldx(srcX, i7); ey7 = ldx(srcY, i7);
   absX = mxa; absY = mya;
   candCount = w;
 }
@@ -196,7 +206,43 @@ export function filterCandidates(start: i32): i32 {
   const a6 = load<f64>(EDGES + 144), b6 = load<f64>(EDGES + 152), c6 = load<f64>(EDGES + 160);
   const a7 = load<f64>(EDGES + 168), b7 = load<f64>(EDGES + 176), c7 = load<f64>(EDGES + 184);
   let w = start;
-  for (let i = start; i < count; i++) {
+  let i = start;
+  if (ASC_FEATURE_SIMD) {
+    // Two points per step (f64x2): the same IEEE products, differences and comparisons as the
+    // scalar test, so the same points survive, in the same order.
+    const A0 = f64x2.splat(a0), B0 = f64x2.splat(b0), C0 = f64x2.splat(c0);
+    const A1 = f64x2.splat(a1), B1 = f64x2.splat(b1), C1 = f64x2.splat(c1);
+    const A2 = f64x2.splat(a2), B2 = f64x2.splat(b2), C2 = f64x2.splat(c2);
+    const A3 = f64x2.splat(a3), B3 = f64x2.splat(b3), C3 = f64x2.splat(c3);
+    const A4 = f64x2.splat(a4), B4 = f64x2.splat(b4), C4 = f64x2.splat(c4);
+    const A5 = f64x2.splat(a5), B5 = f64x2.splat(b5), C5 = f64x2.splat(c5);
+    const A6 = f64x2.splat(a6), B6 = f64x2.splat(b6), C6 = f64x2.splat(c6);
+    const A7 = f64x2.splat(a7), B7 = f64x2.splat(b7), C7 = f64x2.splat(c7);
+    for (; i + 1 < count; i += 2) {
+      const xv = v128.load(CX + (<usize>i << 3));
+      const yv = v128.load(CY + (<usize>i << 3));
+      let m = f64x2.gt(f64x2.sub(f64x2.mul(A0, yv), f64x2.mul(B0, xv)), C0);
+      m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A1, yv), f64x2.mul(B1, xv)), C1));
+      m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A2, yv), f64x2.mul(B2, xv)), C2));
+      m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A3, yv), f64x2.mul(B3, xv)), C3));
+      m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A4, yv), f64x2.mul(B4, xv)), C4));
+      m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A5, yv), f64x2.mul(B5, xv)), C5));
+      m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A6, yv), f64x2.mul(B6, xv)), C6));
+      m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A7, yv), f64x2.mul(B7, xv)), C7));
+      if (i64x2.all_true(m)) continue;
+      if (i64x2.extract_lane(m, 0) == 0) {
+        store<f64>(CX + (<usize>w << 3), f64x2.extract_lane(xv, 0));
+        store<f64>(CY + (<usize>w << 3), f64x2.extract_lane(yv, 0));
+        w++;
+      }
+      if (i64x2.extract_lane(m, 1) == 0) {
+        store<f64>(CX + (<usize>w << 3), f64x2.extract_lane(xv, 1));
+        store<f64>(CY + (<usize>w << 3), f64x2.extract_lane(yv, 1));
+        w++;
+      }
+    }
+  }
+  for (; i < count; i++) {
     const x = load<f64>(CX + (<usize>i << 3));
     const y = load<f64>(CY + (<usize>i << 3));
     const inside =
@@ -297,8 +343,7 @@ export function runPath(out: usize): void {
       const base = j * stride;
       const start = candCount;
       const first = base + prev + 1;
-      resetExtremes(load<f64>(PX + (<usize>first << 3)), load<f64>(PY + (<usize>first << 3)));
-      gather(PX, PY, first, base + hi + 1);
+      gatherGroup(PX, PY, first, base + hi + 1);
       filterCandidates(start);
     }
     const h = chainCandidates();
@@ -344,8 +389,7 @@ export function hullOfPoints(xs: usize, ys: usize, count: i32, useFilter: bool):
   candCount = 0;
   hullCount = 0;
   if (count == 0) return 0;
-  resetExtremes(load<f64>(xs), load<f64>(ys));
-  gather(xs, ys, 0, count);
+  gatherGroup(xs, ys, 0, count);
   if (useFilter) filterCandidates(0);
   return chainCandidates();
 }
