@@ -46,7 +46,7 @@ export interface Claim {
   measure: Measure;
   /** Claimed lim Var(X_n) / n^p (p from the prediction's varianceScaling, or `varianceScaling`). */
   varianceLimit?: number;
-  /** Claimed lim E X_n / n^q (q = `meanScaling`, default 1). */
+  /** Claimed lim E X_n / n^q (q = `meanScaling`, default the prediction's, else 1). */
   meanGrowth?: number;
   limitLaw?: "normal" | "non-normal";
   /** With `mean`: a claimed finite-n mean at this n (must be on the suite's grid). */
@@ -54,7 +54,7 @@ export interface Claim {
   mean?: number;
   /** Optional override of the power p in Var(X_n)/n^p. */
   varianceScaling?: number;
-  /** Optional power q in E X_n / n^q for meanGrowth (default 1). */
+  /** Optional power q in E X_n / n^q for meanGrowth (default: the prediction's meanScaling, else 1). */
   meanScaling?: number;
   /** Optional free-text label shown in reports. */
   label?: string;

@@ -243,8 +243,8 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
       limitCheck(claim.measure, "varianceLimit", p, claim.varianceLimit, `${claim.measure}.varianceLimit.${field}`, src, "claim", uncalibrated);
     }
     if (claim.meanGrowth !== undefined) {
-      // The suite contract: q = claim.meanScaling, default 1.
-      limitCheck(claim.measure, "meanGrowth", claim.meanScaling ?? 1, claim.meanGrowth, `${claim.measure}.meanGrowth.${field}`, src, "claim", false);
+      // q = claim.meanScaling, else the prediction's meanScaling (as for varianceScaling), else 1.
+      limitCheck(claim.measure, "meanGrowth", claim.meanScaling ?? pred?.meanScaling ?? 1, claim.meanGrowth, `${claim.measure}.meanGrowth.${field}`, src, "claim", false);
     }
     if (claim.limitLaw !== undefined) lawCheck(claim.measure, claim.limitLaw, `${claim.measure}.limitLaw.${field}`, src, []);
   });
