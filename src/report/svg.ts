@@ -81,6 +81,8 @@ export function logTicks(lo: number, hi: number): number[] {
   for (let k = a; k <= b; k++) pow.push(Math.pow(10, k));
   let t = pow.filter((x) => x >= lo * (1 - 1e-9) && x <= hi * (1 + 1e-9));
   if (t.length < 3) t = pow.flatMap((p) => [p, 2 * p, 5 * p]).filter((x) => x >= lo * (1 - 1e-9) && x <= hi * (1 + 1e-9));
+  // Less than a factor 5 wide: round linear steps read better than one lone label.
+  if (t.length < 2) t = linearTicks(lo, hi, 4).filter((x) => x > 0);
   return t.map((x) => Number(x.toPrecision(12)));
 }
 

@@ -66,7 +66,8 @@ describe("plot data", () => {
   it("ticks are round and cover the domain", () => {
     expect(linearTicks(0.03, 0.97, 5)).toEqual([0.2, 0.4, 0.6, 0.8]);
     expect(logTicks(8, 2000)).toEqual([10, 100, 1000]);
-    expect(logTicks(30, 90)).toEqual([50]);
+    expect(logTicks(30, 90)).toEqual([40, 60, 80]);
+    expect(logTicks(0.0025, 0.0072)).toEqual([0.004, 0.006]);
   });
 
   it("the hull plot has one circle per hull vertex and one path per walk", () => {
