@@ -123,24 +123,67 @@ function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
   store<f64>(CX + (<usize>w << 3), x);
   store<f64>(CY + (<usize>w << 3), y);
   w++;
-  for (let i = from + 1; i < to; i++) {
-    x = ldx(srcX, i);
-    y = ldx(srcY, i);
-    store<f64>(CX + (<usize>w << 3), x);
-    store<f64>(CY + (<usize>w << 3), y);
-    w++;
-    const u = a * x, v = b * x + c * y;
-    const s = u + v, d = u - v;
-    let t = u > u0; u0 = select<f64>(u, u0, t); i0 = select<i32>(i, i0, t);
-    t = u < u4; u4 = select<f64>(u, u4, t); i4 = select<i32>(i, i4, t);
-    t = s > s1; s1 = select<f64>(s, s1, t); i1 = select<i32>(i, i1, t);
-    t = s < s5; s5 = select<f64>(s, s5, t); i5 = select<i32>(i, i5, t);
-    t = v > v2; v2 = select<f64>(v, v2, t); i2 = select<i32>(i, i2, t);
-    t = v < v6; v6 = select<f64>(v, v6, t); i6 = select<i32>(i, i6, t);
-    t = d < d3; d3 = select<f64>(d, d3, t); i3 = select<i32>(i, i3, t);
-    t = d > d7; d7 = select<f64>(d, d7, t); i7 = select<i32>(i, i7, t);
-    mxa = max(mxa, Math.abs(x));
-    mya = max(mya, Math.abs(y));
+  if (ASC_FEATURE_SIMD) {
+    // Lanes: P = [u, v], Q = [u + v, u - v]; the same IEEE operations and strict comparisons as
+    // the scalar loop below (so the same extreme points), with indices carried as f64.
+    const AB = f64x2.replace_lane(f64x2.splat(a), 1, b);
+    const ZC = f64x2.replace_lane(f64x2.splat(0.0), 1, c);
+    const PN = f64x2.replace_lane(f64x2.splat(1.0), 1, -1.0);
+    let pMax = f64x2.replace_lane(f64x2.splat(u0), 1, v2);
+    let pMin = pMax;
+    let qMax = f64x2.replace_lane(f64x2.splat(s1), 1, d7);
+    let qMin = qMax;
+    const f0 = f64x2.splat(<f64>from);
+    let ipMax = f0, ipMin = f0, iqMax = f0, iqMin = f0;
+    let absXY = f64x2.replace_lane(f64x2.splat(mxa), 1, mya);
+    for (let i = from + 1; i < to; i++) {
+      x = ldx(srcX, i);
+      y = ldx(srcY, i);
+      store<f64>(CX + (<usize>w << 3), x);
+      store<f64>(CY + (<usize>w << 3), y);
+      w++;
+      const X = f64x2.splat(x);
+      const Y = f64x2.splat(y);
+      const P = f64x2.add(f64x2.mul(X, AB), f64x2.mul(Y, ZC));
+      const Q = f64x2.add(f64x2.splat(f64x2.extract_lane(P, 0)), f64x2.mul(f64x2.splat(f64x2.extract_lane(P, 1)), PN));
+      const I = f64x2.splat(<f64>i);
+      let m = f64x2.gt(P, pMax);
+      pMax = v128.bitselect(P, pMax, m); ipMax = v128.bitselect(I, ipMax, m);
+      m = f64x2.lt(P, pMin);
+      pMin = v128.bitselect(P, pMin, m); ipMin = v128.bitselect(I, ipMin, m);
+      m = f64x2.gt(Q, qMax);
+      qMax = v128.bitselect(Q, qMax, m); iqMax = v128.bitselect(I, iqMax, m);
+      m = f64x2.lt(Q, qMin);
+      qMin = v128.bitselect(Q, qMin, m); iqMin = v128.bitselect(I, iqMin, m);
+      absXY = f64x2.pmax(absXY, f64x2.abs(f64x2.replace_lane(X, 1, y)));
+    }
+    i0 = <i32>f64x2.extract_lane(ipMax, 0); i2 = <i32>f64x2.extract_lane(ipMax, 1);
+    i4 = <i32>f64x2.extract_lane(ipMin, 0); i6 = <i32>f64x2.extract_lane(ipMin, 1);
+    i1 = <i32>f64x2.extract_lane(iqMax, 0); i7 = <i32>f64x2.extract_lane(iqMax, 1);
+    i5 = <i32>f64x2.extract_lane(iqMin, 0); i3 = <i32>f64x2.extract_lane(iqMin, 1);
+    mxa = f64x2.extract_lane(absXY, 0); mya = f64x2.extract_lane(absXY, 1);
+  } else {
+    for (let i = from + 1; i < to; i++) {
+      x = ldx(srcX, i);
+      y = ldx(srcY, i);
+      store<f64>(CX + (<usize>w << 3), x);
+      store<f64>(CY + (<usize>w << 3), y);
+      w++;
+      const u = a * x, v = b * x + c * y;
+      const s = u + v, d = u - v;
+      let t = u > u0; u0 = select<f64>(u, u0, t); i0 = select<i32>(i, i0, t);
+      t = u < u4; u4 = select<f64>(u, u4, t); i4 = select<i32>(i, i4, t);
+      t = s > s1; s1 = select<f64>(s, s1, t); i1 = select<i32>(i, i1, t);
+      t = s < s5; s5 = select<f64>(s, s5, t); i5 = select<i32>(i, i5, t);
+      t = v > v2; v2 = select<f64>(v, v2, t); i2 = select<i32>(i, i2, t);
+      t = v < v6; v6 = select<f64>(v, v6, t); i6 = select<i32>(i, i6, t);
+      t = d < d3; d3 = select<f64>(d, d3, t); i3 = select<i32>(i, i3, t);
+      t = d > d7; d7 = select<f64>(d, d7, t); i7 = select<i32>(i, i7, t);
+      // select, not f64.max: V8's f64.max handles NaN and signed zeros with extra branches.
+      const ax = Math.abs(x), ay = Math.abs(y);
+      mxa = select<f64>(ax, mxa, ax > mxa);
+      mya = select<f64>(ay, mya, ay > mya);
+    }
   }
   ex0 = ldx(srcX, i0); ey0 = ldx(srcY, i0);
   ex1 = ldx(srcX, i1); ey1 = ldx(srcY, i1);
