@@ -8,7 +8,7 @@
 // Quadrature in t: the integrand is analytic but has near-kinks of width ~ s / (sqrt(n) |edge|) at the
 // outward normals of the edges of P = conv{0, mu_j}; we use panels graded geometrically towards those
 // directions, with nested Clenshaw–Curtis rules (17 and 9 points) whose difference bounds the error.
-// In x: composite 16-point Gauss–Legendre on panels of length 3 min_j s_j.
+// In x: composite 16-point Gauss–Legendre on panels of length 4 min_j s_j.
 // Hypotheses: Gaussian steps with non-singular covariances (any drifts), k >= 1.
 // Budget: the cost of one recursion is timed first; the largest n of the grid whose estimated cost fits
 // PredictOptions.budgetSeconds is kept, larger n are dropped and reported.
@@ -130,6 +130,7 @@ export function expectedMaxAtAngle(
   t: number,
   ns: number[],
   h: number,
+  withCheck = true,
 ): { values: number[]; recursionError: number[] } {
   const proj = walks.map((w) => projected(w, t));
   const cache = new Map<string, RunningMaxLaw>();
@@ -153,7 +154,7 @@ export function expectedMaxAtAngle(
     // Single-walk integrals for the error check, and the k-walk integrand.
     const integrate = (g: (x: number) => number, a: number, b: number) => {
       if (b <= a) return 0;
-      const m = Math.max(1, Math.ceil((b - a) / (3 * sMin)));
+      const m = Math.max(1, Math.ceil((b - a) / (4 * sMin)));
       const len = (b - a) / m;
       let s = 0;
       for (let q = 0; q < m; q++) {
@@ -171,6 +172,10 @@ export function expectedMaxAtAngle(
       }, xLo, xHi);
     values.push(value);
     let err = 0;
+    if (!withCheck) {
+      recursionError.push(0);
+      continue;
+    }
     if (proj.length > 1) {
       proj.forEach((p, j) => {
         const [lo, hi] = laws[j].support(idx);
@@ -199,43 +204,55 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
   let kept = [...ns].sort((a, b) => a - b);
   // Time one evaluation at the largest n, then keep the largest n that fits the budget.
   const panelsFor = (n: number) => angularPanels(breakpoints(walks, n)).length;
-  const t0 = performance.now();
-  expectedMaxAtAngle(walks, 0.3, kept, h); // warm-up (JIT), then time one evaluation
+  // Warm up (the first call at a new size runs unoptimised code), then time one evaluation.
+  expectedMaxAtAngle(walks, 0.3, [Math.min(kept[0], 50)], h, false);
+  expectedMaxAtAngle(walks, 0.7, kept, h, false);
   const t1 = performance.now();
-  expectedMaxAtAngle(walks, 1.1, kept, h);
-  const perEval = Math.min(secondsSince(t1), secondsSince(t0) / 2);
+  expectedMaxAtAngle(walks, 1.1, kept, h, false);
+  const perEval = secondsSince(t1);
   const nTop = kept[kept.length - 1];
-  const estimate = (n: number) => perEval * Math.pow(n / nTop, 1.5) * NCC * panelsFor(n) * 1.1;
+  const estimate = (n: number) => perEval * Math.pow(n / nTop, 1.5) * NCC * panelsFor(n);
   while (kept.length > 0 && estimate(kept[kept.length - 1]) > budget - secondsSince(start)) {
     const n = kept.pop()!;
     reasons.push(
-      `perimeter of ${walks.length} walks at n = ${n}: Cauchy quadrature skipped (estimated ${estimate(n).toFixed(1)} s > budget ${budget} s)`,
+      `perimeter of ${walks.length} walks at n = ${n}: Cauchy quadrature skipped (estimated ${estimate(n).toFixed(1)} s > budget ${budget.toFixed(1)} s)`,
     );
   }
   const means: Record<string, number> = {}, errors: Record<string, number> = {};
   if (kept.length === 0) return { means, errors, reasons, seconds: secondsSince(start), angles: 0 };
   const panels = angularPanels(breakpoints(walks, kept[kept.length - 1]));
-  const total = kept.map(() => 0), coarse = kept.map(() => 0), angErr = kept.map(() => 0), recErr = kept.map(() => 0);
+  const total = kept.map(() => 0), angErr = kept.map(() => 0), recErr = kept.map(() => 0);
   let angles = 0;
-  for (const [a, b] of panels) {
+  let active = kept.length; // kept[0..active) are still being computed
+  const loopStart = performance.now();
+  panels.forEach(([a, b], pi) => {
     const half = (b - a) / 2, mid = (a + b) / 2;
-    const fine = kept.map(() => 0), crude = kept.map(() => 0);
+    const ks = kept.slice(0, active);
+    const fine = ks.map(() => 0), crude = ks.map(() => 0);
     for (let j = 0; j <= NCC; j++) {
       const t = mid + half * CC16.x[j];
-      const { values, recursionError } = expectedMaxAtAngle(walks, t, kept, h);
+      // The recursion is checked against Spitzer's exact single-walk mean at each panel's centre.
+      const check = j === NCC / 2;
+      const { values, recursionError } = expectedMaxAtAngle(walks, t, ks, h, check);
       angles++;
-      for (let q = 0; q < kept.length; q++) {
+      for (let q = 0; q < ks.length; q++) {
         fine[q] += CC16.w[j] * values[q] * half;
         if (j % 2 === 0) crude[q] += CC8.w[j / 2] * values[q] * half;
-        recErr[q] += CC16.w[j] * recursionError[q] * half;
+        if (check) recErr[q] += 2 * half * recursionError[q];
       }
     }
-    for (let q = 0; q < kept.length; q++) {
+    for (let q = 0; q < ks.length; q++) {
       total[q] += fine[q];
-      coarse[q] += crude[q];
       angErr[q] += Math.abs(fine[q] - crude[q]);
     }
-  }
+    // Projected time at the current pace: drop the largest n while it would overrun the budget.
+    const pace = secondsSince(loopStart) / (pi + 1);
+    while (active > 1 && secondsSince(start) + pace * (panels.length - pi - 1) > budget) {
+      active--;
+      reasons.push(`perimeter of ${walks.length} walks at n = ${kept[active]}: Cauchy quadrature stopped (time budget ${budget} s)`);
+    }
+  });
+  kept = kept.slice(0, active);
   kept.forEach((n, q) => {
     means[String(n)] = total[q];
     errors[String(n)] = angErr[q] + recErr[q] + 1e-15 * total[q] * angles;

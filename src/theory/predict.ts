@@ -1,0 +1,157 @@
+// The prediction stage entry point: predict(suite) -> one MeasurePrediction per measure of the suite
+// (same order), with exact finite-n means where a formula applies, and renderPredictionTable.
+// Budget: PredictOptions.budgetSeconds (default 20 s) bounds the numerical quadratures; the cheap
+// exact formulas run first, the k-walk Cauchy quadrature gets what remains and drops the largest n
+// that would not fit (said in `reasons`).
+
+import type { Suite } from "../suite/schema.js";
+import { gaussianAreaMeans, BNB_SOURCE } from "./area-mean.js";
+import { cauchyMeanPerimeter, CAUCHY_SOURCE } from "./cauchy-quadrature.js";
+import { diagnose, type Diagnosis } from "./diagnose.js";
+import { isContinuousLaw, stepMoments as lawMoments } from "./laws.js";
+import { secondsSince } from "./special.js";
+import { spitzerWidomMeans } from "./spitzer-widom.js";
+import type { MeasurePrediction, Prediction, PredictionRow, PredictOptions } from "./types.js";
+import { meanVertexCount } from "./vertices.js";
+import type { StepLaw, Vec2, Mat2 } from "../suite/schema.js";
+
+/** Mean, covariance and 4th-moment finiteness of a step law (throws naming the bad field). */
+export function stepMoments(law: StepLaw): { mean: Vec2; cov: Mat2; fourthMomentFinite: boolean; secondMomentFinite: boolean } {
+  return lawMoments(law, "walk");
+}
+
+function checkSuite(suite: Suite): number[] {
+  if (!suite || typeof suite !== "object") throw new Error("suite: expected an object");
+  if (!Array.isArray(suite.n) || suite.n.length === 0) throw new Error("n: expected a non-empty array of step counts");
+  suite.n.forEach((n, i) => {
+    if (!Number.isInteger(n) || n < 1) throw new Error(`n[${i}]: expected a positive integer, got ${JSON.stringify(n)}`);
+    if (i > 0 && n <= suite.n[i - 1]) throw new Error(`n[${i}]: must be strictly increasing`);
+  });
+  return suite.n;
+}
+
+function fmt(x: number): string {
+  if (!Number.isFinite(x)) return String(x);
+  if (x === 0) return "0";
+  return Math.abs(x) >= 1e6 || Math.abs(x) < 1e-3 ? x.toExponential(6) : x.toPrecision(10).replace(/\.?0+$/, "");
+}
+
+function rowsFor(p: MeasurePrediction): PredictionRow[] {
+  const src = p.sources.length ? p.sources.join("; ") : "-";
+  const hyp = p.reasons.join("; ") || "-";
+  const rows: PredictionRow[] = [{ quantity: "limit law", value: p.limitLaw, hypotheses: hyp, verdict: p.limitLaw, source: src }];
+  rows.push({
+    quantity: `lim Var/n^${p.varianceScaling}`,
+    value: p.varianceLimit === null ? "none" : fmt(p.varianceLimit),
+    hypotheses: p.varianceUncalibrated ? "variance checks uncalibrated" : "-",
+    verdict: p.varianceLimitKind ?? "no prediction",
+    source: src,
+  });
+  rows.push({
+    quantity: `lim E/n^${p.meanScaling}`,
+    value: p.meanGrowth === null ? "none" : fmt(p.meanGrowth),
+    hypotheses: "-",
+    verdict: p.meanGrowthKind ?? "no prediction",
+    source: src,
+  });
+  for (const key of Object.keys(p.exactMeans)) {
+    rows.push({
+      quantity: `E at n = ${key}`,
+      value: `${fmt(p.exactMeans[key])} +- ${p.exactMeansError[key].toExponential(1)}`,
+      hypotheses: "-",
+      verdict: "exact",
+      source: src,
+    });
+  }
+  return rows;
+}
+
+export function predict(suite: Suite, opts: PredictOptions = {}): Prediction {
+  const start = performance.now();
+  const ns = checkSuite(suite);
+  const budget = opts.budgetSeconds ?? 20;
+  if (!(budget > 0)) throw new Error("budgetSeconds: expected a positive number");
+  const tol = { tie: opts.tieTolerance ?? 1e-9, nearTie: opts.nearTieTolerance ?? 1e-2 };
+  if (!(tol.tie > 0 && tol.nearTie >= tol.tie)) throw new Error("tieTolerance: expected 0 < tieTolerance <= nearTieTolerance");
+  const diags = diagnose(suite, tol);
+  const k = suite.walks.length;
+  const remaining = () => Math.max(0.05, budget - secondsSince(start));
+  const deferred: (() => void)[] = [];
+  const measures: MeasurePrediction[] = diags.map((d: Diagnosis) => {
+    const p: MeasurePrediction = { ...d, exactMeans: {}, exactMeansError: {} };
+    const infinite = suite.walks.some((w) => w.law === "student" && w.dof <= 2);
+    if (d.measure === "perimeter") {
+      if (k === 1 && !infinite) {
+        const r = spitzerWidomMeans(suite.walks[0], ns, Math.min(remaining() / 2, 10), "walks[0]");
+        Object.assign(p.exactMeans, r.means);
+        Object.assign(p.exactMeansError, r.errors);
+        p.reasons.push(...r.reasons);
+        if (Object.keys(r.means).length) p.sources.push(...r.sources);
+      } else if (k >= 2) {
+        const gaussian = suite.walks.every((w) => w.law === "gaussian" && isContinuousLaw(w));
+        if (!gaussian) {
+          p.reasons.push("no exact mean perimeter for k >= 2 walks: the Cauchy quadrature is implemented for Gaussian steps with non-singular covariances");
+        } else {
+          // Heavy: run after the cheap predictions so it gets the rest of the budget.
+          deferred.push(() => {
+            const r = cauchyMeanPerimeter(suite.walks.map((w) => w.law === "gaussian" ? { mean: w.mean, cov: w.cov } : null!), ns, { budgetSeconds: remaining() });
+            Object.assign(p.exactMeans, r.means);
+            Object.assign(p.exactMeansError, r.errors);
+            p.reasons.push(...r.reasons);
+            if (Object.keys(r.means).length) p.sources.push(CAUCHY_SOURCE);
+          });
+        }
+      }
+    } else if (d.measure === "area") {
+      const w = suite.walks[0];
+      if (k === 1 && w.law === "gaussian") {
+        const r = gaussianAreaMeans(w.mean, w.cov, ns, Math.min(remaining() / 4, 5));
+        Object.assign(p.exactMeans, r.means);
+        Object.assign(p.exactMeansError, r.errors);
+        p.reasons.push(...r.reasons);
+        if (Object.keys(r.means).length) p.sources.push(BNB_SOURCE, "E|det(S_a, S'_b)| for Gaussian steps by a 1-D integral [derived]");
+      } else if (k === 1) {
+        p.reasons.push(`no exact mean area for ${w.law} steps (implemented for Gaussian steps)`);
+      } else {
+        p.reasons.push("no exact finite-n mean area for k >= 2 walks");
+      }
+    } else if (d.measure === "vertices") {
+      if (k === 1 && isContinuousLaw(suite.walks[0])) {
+        for (const n of ns) {
+          p.exactMeans[String(n)] = meanVertexCount(n);
+          p.exactMeansError[String(n)] = 1e-15 * n;
+        }
+      }
+    } else {
+      p.reasons.push("no finite-n formula for the mean diameter");
+    }
+    return p;
+  });
+  for (const run of deferred) run();
+  for (const p of measures) p.rows = rowsFor(p);
+  return { measures };
+}
+
+/** Plain-text table: measure, quantity, value, hypotheses, verdict, source (sources as footnotes). */
+export function renderPredictionTable(p: Prediction): string {
+  const notes: string[] = [];
+  const note = (s: string) => {
+    if (s === "-") return "-";
+    let i = notes.indexOf(s);
+    if (i < 0) { notes.push(s); i = notes.length - 1; }
+    return `[${i + 1}]`;
+  };
+  const header = ["measure", "quantity", "value", "verdict", "source"];
+  const body: string[][] = [];
+  const hyps: string[] = [];
+  for (const m of p.measures) {
+    for (const r of m.rows ?? rowsFor(m)) body.push([m.measure, r.quantity, r.value, r.verdict, note(r.source)]);
+    hyps.push(`${m.measure}: ${m.limitLaw}${m.varianceUncalibrated ? " (variance checks uncalibrated)" : ""}`);
+    for (const reason of m.reasons) hyps.push(`  - ${reason}`);
+  }
+  const widths = header.map((h, i) => Math.max(h.length, ...body.map((r) => r[i].length)));
+  const line = (cells: string[]) => cells.map((c, i) => c.padEnd(widths[i])).join("  ").trimEnd();
+  const out = [line(header), widths.map((w) => "-".repeat(w)).join("  "), ...body.map(line), "", "Hypotheses and diagnosis:", ...hyps, "", "Sources:"];
+  notes.forEach((s, i) => out.push(`[${i + 1}] ${s}`));
+  return out.join("\n") + "\n";
+}
