@@ -303,6 +303,7 @@ export class TwinKernel implements Kernel {
     return out;
   }
 
+  /** Points and hull interleaved: [x_0, y_0, x_1, y_1, ...]; points[j] has nMax + 1 points. */
   samplePath(block: number): { points: Float64Array[]; hull: Float64Array } {
     const rec = this.grid.length * MEASURES_PER_RECORD;
     this.rng.seedBlock(this.seed, block);

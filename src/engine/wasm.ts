@@ -151,6 +151,7 @@ export function createWasmKernel(module: WebAssembly.Module, setup: KernelSetup)
       }
       return out;
     },
+    // Points and hull are interleaved: [x_0, y_0, x_1, y_1, ...]; points[j] has nMax + 1 points.
     samplePath(block: number) {
       ex.seedBlock(seed, BigInt(block));
       ex.runPaths(1, outPtr);
