@@ -66,6 +66,14 @@ describe("kernel values equal the oracles on the sampled path", () => {
     ["gaussian + singular gaussian", [SAMPLE_LAWS.gaussian, SAMPLE_LAWS["gaussian singular [[1,1],[1,1]]"]]],
     ["one singular gaussian (all points collinear)", [SAMPLE_LAWS["gaussian singular [[1,1],[1,1]]"]]],
     ["empirical with a zero step", [SAMPLE_LAWS.empirical]],
+    ["gaussian rescaled by 1e-9", [{ law: "gaussian", mean: [1e-9, 0], cov: [[1e-18, 0.3e-18], [0.3e-18, 1e-18]] }]],
+    ["two gaussians rescaled by 1e9", [
+      { law: "gaussian", mean: [1e9, 0], cov: [[1e18, 0], [0, 1e18]] },
+      { law: "gaussian", mean: [0, -1e9], cov: [[2e18, 0], [0, 1e18]] },
+    ]],
+    ["lattice walk far from the origin in relative terms (steps 2^20 and 1)", [
+      { law: "discrete", atoms: [[1048576, 0], [1048576, 1], [1048576, -1], [1048575, 0]], weights: [0.25, 0.25, 0.25, 0.25] },
+    ]],
   ];
   it.each(cases)("%s", (_name, laws) => {
     const grid = [1, 3, 12, 40, 90];
