@@ -1,0 +1,83 @@
+import { describe, expect, it } from "vitest";
+import { cauchyMeanPerimeter } from "../../src/theory/cauchy-quadrature.js";
+import { runningMaxLaw, spitzerMaxMean } from "../../src/theory/running-max.js";
+import { spitzerWidomMeans } from "../../src/theory/spitzer-widom.js";
+import type { Mat2, Vec2 } from "../../src/suite/schema.js";
+import { hullOf, meanSE, normalSource } from "./helpers.js";
+
+describe("running maximum by the Lindley recursion vs Spitzer's E M_n = sum E[S_k^+]/k (Spitzer, Trans. AMS 82 (1956))", () => {
+  it("matches for drifts -0.3, 0, 0.05, 1 at n = 10, 200", () => {
+    for (const r of [-0.3, 0, 0.05, 1]) {
+      const law = runningMaxLaw(r, [10, 200], { h: 0.75 });
+      for (const [idx, n] of [[0, 10], [1, 200]]) {
+        const [, hi] = law.support(idx);
+        // Simpson rule for int_0^hi (1 - F).
+        const m = 2 * Math.ceil(hi / 0.02 / 2), H = hi / m;
+        let s = 0;
+        for (let i = 0; i <= m; i++) s += (i === 0 || i === m ? 1 : i % 2 ? 4 : 2) * (1 - law.cdf(idx, i * H));
+        const exact = spitzerMaxMean(r, n);
+        expect(Math.abs((s * H) / 3 - exact)).toBeLessThan(1e-8 * Math.max(1, exact));
+      }
+    }
+  });
+});
+
+describe("k-walk Cauchy quadrature (item 3)", () => {
+  it("agrees with Spitzer–Widom (item 1) for k = 1 to 1e-6 relative", () => {
+    const walks: { mean: Vec2; cov: Mat2 }[] = [
+      { mean: [1, 0], cov: [[1, 0], [0, 1]] },
+      { mean: [0.3, 0.1], cov: [[1, 0.3], [0.3, 0.5]] },
+      { mean: [0, 0], cov: [[2, -0.5], [-0.5, 1]] },
+    ];
+    for (const w of walks) {
+      const c = cauchyMeanPerimeter([w], [10, 300], { budgetSeconds: 120 });
+      const sw = spitzerWidomMeans({ law: "gaussian", ...w }, [10, 300], 20);
+      for (const n of ["10", "300"]) {
+        expect(Math.abs(c.means[n] - sw.means[n]) / sw.means[n]).toBeLessThan(1e-6);
+        expect(Math.abs(c.means[n] - sw.means[n])).toBeLessThanOrEqual(c.errors[n] + 1e-9 * sw.means[n]);
+      }
+    }
+  });
+
+  it("agrees with a Monte Carlo estimate for k = 2 (|z| <= 4, seeded simulation in this test)", () => {
+    const walks: { mean: Vec2; cov: Mat2 }[] = [
+      { mean: [0.3, 0], cov: [[1, 0], [0, 1]] },
+      { mean: [0, 0.2], cov: [[1, 0.3], [0.3, 0.6]] },
+    ];
+    const n = 40;
+    const c = cauchyMeanPerimeter(walks, [n], { budgetSeconds: 120 });
+    const normal = normalSource("cauchy-k2");
+    const chol = walks.map((w) => {
+      const a = Math.sqrt(w.cov[0][0]), b = w.cov[0][1] / a, d = Math.sqrt(w.cov[1][1] - b * b);
+      return [a, b, d];
+    });
+    const xs = new Array(2 * n + 1), ys = new Array(2 * n + 1), sample: number[] = [];
+    for (let p = 0; p < 20000; p++) {
+      xs[0] = 0; ys[0] = 0;
+      let q = 1;
+      walks.forEach((w, j) => {
+        let x = 0, y = 0;
+        const [a, b, d] = chol[j];
+        for (let i = 0; i < n; i++) {
+          const z1 = normal(), z2 = normal();
+          x += w.mean[0] + a * z1;
+          y += w.mean[1] + b * z1 + d * z2;
+          xs[q] = x; ys[q] = y; q++;
+        }
+      });
+      sample.push(hullOf(xs, ys).perimeter);
+    }
+    const { mean, se } = meanSE(sample);
+    expect(Math.abs(mean - c.means[String(n)])).toBeLessThanOrEqual(4 * se);
+  });
+
+  it("drops the largest n and says so when the budget is tiny", () => {
+    const walks: { mean: Vec2; cov: Mat2 }[] = [
+      { mean: [1, 0], cov: [[1, 0], [0, 1]] },
+      { mean: [0, 1], cov: [[1, 0], [0, 1]] },
+    ];
+    const c = cauchyMeanPerimeter(walks, [5, 3000], { budgetSeconds: 0.5 });
+    expect(c.means["3000"]).toBeUndefined();
+    expect(c.reasons.join(" ")).toMatch(/n = 3000: Cauchy quadrature (skipped|stopped)/);
+  });
+});
