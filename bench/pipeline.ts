@@ -1,6 +1,8 @@
 // Pipeline bench: ns per walk step (a step moves every walk once) for steps + hull + the three
 // functionals, WASM vs the TS twin side by side; and RNG + normals alone (ziggurat vs polar).
-// Usage: node --import tsx bench/pipeline.ts [--smoke] [--json FILE]
+// Usage: node --import tsx bench/pipeline.ts [--smoke] [--cpu] [--json FILE]
+//   --cpu  time with this process's CPU time (user + system) instead of the wall clock: steadier
+//          when other jobs share the machine (it still counts GC and compiler threads).
 
 import { writeFileSync } from "node:fs";
 import os from "node:os";
@@ -12,6 +14,7 @@ import type { StepLaw } from "../src/suite/schema.js";
 
 const args = process.argv.slice(2);
 const smoke = args.includes("--smoke");
+const cpuClock = args.includes("--cpu");
 const jsonAt = args.indexOf("--json");
 const jsonFile = jsonAt >= 0 ? args[jsonAt + 1] : undefined;
 if (jsonAt >= 0 && !jsonFile) throw new Error("--json: missing FILE");
@@ -39,7 +42,11 @@ function meanMs(bench: Bench, name: string): number {
 }
 
 const module = loadWasmModuleSync();
-const bench = new Bench({ name: "pipeline", ...benchOptions });
+const cpuNow = () => {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1000;
+};
+const bench = new Bench({ name: "pipeline", ...benchOptions, ...(cpuClock ? { now: cpuNow } : {}) });
 const perCall = new Map<string, number>();
 
 for (const c of cases) {
@@ -92,7 +99,8 @@ const rngRows: RngRow[] = ["ziggurat", "polar"].map((s) => {
 });
 
 const f1 = (x: number) => x.toFixed(1);
-console.log(`\nPipeline (Gaussian steps, cov I; ns per step, a step moves every walk once)${smoke ? " [smoke]" : ""}`);
+const clock = cpuClock ? "process CPU time" : "wall clock";
+console.log(`\nPipeline (Gaussian steps, cov I; ns per step, a step moves every walk once; ${clock})${smoke ? " [smoke]" : ""}`);
 console.log("| walks | drifts | n | WASM ns/step | TS twin ns/step | twin / WASM |");
 console.log("|---|---|---|---|---|---|");
 for (const r of rows) console.log(`| ${r.walks} | ${r.laws} | ${r.n} | ${f1(r.wasmNsPerStep)} | ${f1(r.twinNsPerStep)} | ${r.ratio.toFixed(2)} |`);
@@ -107,6 +115,7 @@ const env = {
   cores: os.cpus().length,
   loadavg: os.loadavg(),
   smoke,
+  clock,
   stepsPerCall: STEPS_PER_CALL,
   date: new Date().toISOString(),
 };
