@@ -73,20 +73,3 @@ export function drawStepsInto(code: i32, params: usize, count: i32, sx: usize, s
     }
   }
 }
-
-/**
- * Positions S_0 = 0, S_1, ..., S_n of one walk into px[0..n], py[0..n], using sx/sy/normals as
- * step scratch (n f64, n f64, 2n f64).
- */
-export function generateWalk(code: i32, params: usize, n: i32, px: usize, py: usize, sx: usize, sy: usize, normals: usize): void {
-  drawStepsInto(code, params, n, sx, sy, normals);
-  let x = 0.0, y = 0.0;
-  store<f64>(px, 0.0);
-  store<f64>(py, 0.0);
-  for (let i = 0; i < n; i++) {
-    x += load<f64>(sx + (<usize>i << 3));
-    y += load<f64>(sy + (<usize>i << 3));
-    store<f64>(px + (<usize>(i + 1) << 3), x);
-    store<f64>(py + (<usize>(i + 1) << 3), y);
-  }
-}
