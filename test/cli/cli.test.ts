@@ -48,7 +48,7 @@ describe("walkhull CLI", () => {
     expect(rep.seed).toBe(9);
     expect(rep.version).toMatch(/^\d+\.\d+\.\d+/);
     expect(rep.timing.wallSeconds).toBeGreaterThan(0);
-    expect(rep.blocks).toHaveLength(32);
+    expect(rep.blocks).toHaveLength(64); // default block count (64) for 640 paths
   });
 
   it("--paths and --seed override the suite", () => {
