@@ -16,7 +16,7 @@ import {
   perimeterGradients, walksAt,
 } from "./linearised-variance.js";
 import { BAXTER_SOURCE } from "./vertices.js";
-import type { ConstantKind, LimitLaw, MeasurePrediction } from "./types.js";
+import type { LimitLaw, MeasurePrediction } from "./types.js";
 
 export interface Tolerances {
   tie: number;
@@ -356,4 +356,3 @@ export function diagnose(suite: Suite, tol: Tolerances): Diagnosis[] {
   });
 }
 
-export type { ConstantKind };

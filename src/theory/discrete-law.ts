@@ -42,7 +42,6 @@ export function discreteAbsMeans(atoms: Vec2[], weights: number[], n: number, ma
   const q = commonDenominator(atoms);
   if (q !== null) {
     const ia = atoms.map((a) => [Math.round(a[0] * q), Math.round(a[1] * q)]);
-    const R = Math.max(1, ...ia.map((a) => Math.max(Math.abs(a[0]), Math.abs(a[1]))));
     const minX = Math.min(...ia.map((a) => a[0])), maxX = Math.max(...ia.map((a) => a[0]));
     const minY = Math.min(...ia.map((a) => a[1])), maxY = Math.max(...ia.map((a) => a[1]));
     // Find the largest n whose total work fits.
@@ -54,7 +53,6 @@ export function discreteAbsMeans(atoms: Vec2[], weights: number[], n: number, ma
       ops += cells * (1 + atoms.length);
       nCap = k;
     }
-    void R;
     const W = nCap * (maxX - minX) + 1, H = nCap * (maxY - minY) + 1;
     // Cell (x, y) of S_k stored at (x - k*minX) + W * (y - k*minY).
     let cur = new Float64Array(W * H), next = new Float64Array(W * H);

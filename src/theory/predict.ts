@@ -39,6 +39,7 @@ function fmt(x: number): string {
 function rowsFor(p: MeasurePrediction): PredictionRow[] {
   const src = p.sources.length ? p.sources.join("; ") : "-";
   const hyp = p.reasons.join("; ") || "-";
+
   const rows: PredictionRow[] = [{ quantity: "limit law", value: p.limitLaw, hypotheses: hyp, verdict: p.limitLaw, source: src }];
   rows.push({
     quantity: `lim Var/n^${p.varianceScaling}`,
@@ -82,7 +83,7 @@ export function predict(suite: Suite, opts: PredictOptions = {}): Prediction {
     const infinite = suite.walks.some((w) => w.law === "student" && w.dof <= 2);
     if (d.measure === "perimeter") {
       if (k === 1 && !infinite) {
-        const r = spitzerWidomMeans(suite.walks[0], ns, Math.min(remaining() / 2, 10), "walks[0]");
+        const r = spitzerWidomMeans(suite.walks[0], ns, Math.min(remaining() / 4, 4), "walks[0]");
         Object.assign(p.exactMeans, r.means);
         Object.assign(p.exactMeansError, r.errors);
         p.reasons.push(...r.reasons);
@@ -141,17 +142,18 @@ export function renderPredictionTable(p: Prediction): string {
     if (i < 0) { notes.push(s); i = notes.length - 1; }
     return `[${i + 1}]`;
   };
-  const header = ["measure", "quantity", "value", "verdict", "source"];
+  const header = ["measure", "quantity", "value", "hypotheses", "verdict", "source"];
+  const short = (h: string) => (h.length > 56 ? `${h.slice(0, 55)}…` : h);
   const body: string[][] = [];
   const hyps: string[] = [];
   for (const m of p.measures) {
-    for (const r of m.rows ?? rowsFor(m)) body.push([m.measure, r.quantity, r.value, r.verdict, note(r.source)]);
+    for (const r of m.rows ?? rowsFor(m)) body.push([m.measure, r.quantity, r.value, short(r.hypotheses), r.verdict, note(r.source)]);
     hyps.push(`${m.measure}: ${m.limitLaw}${m.varianceUncalibrated ? " (variance checks uncalibrated)" : ""}`);
     for (const reason of m.reasons) hyps.push(`  - ${reason}`);
   }
   const widths = header.map((h, i) => Math.max(h.length, ...body.map((r) => r[i].length)));
   const line = (cells: string[]) => cells.map((c, i) => c.padEnd(widths[i])).join("  ").trimEnd();
-  const out = [line(header), widths.map((w) => "-".repeat(w)).join("  "), ...body.map(line), "", "Hypotheses and diagnosis:", ...hyps, "", "Sources:"];
+  const out = [line(header), widths.map((w) => "-".repeat(w)).join("  "), ...body.map(line), "", "Hypotheses and diagnosis (in full):", ...hyps, "", "Sources:"];
   notes.forEach((s, i) => out.push(`[${i + 1}] ${s}`));
   return out.join("\n") + "\n";
 }
