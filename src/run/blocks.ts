@@ -31,6 +31,7 @@ export function summarizeBlock(
   block: number,
   firstPath: number,
   pathCount: number,
+  totalPaths: number,
   keep: number = MAX_KEPT,
 ): BlockOutput {
   const dim = gridLength * MEASURES_PER_RECORD;
@@ -48,7 +49,7 @@ export function summarizeBlock(
     }
     pushVector(comoments, values, off);
   }
-  const kept = selectKept(values, dim, seed, firstPath, pathCount, keep);
+  const kept = selectKept(values, dim, seed, firstPath, pathCount, totalPaths, keep);
   return { stats: { block, firstPath, paths: pathCount, moments, comoments }, kept, min, max };
 }
 
@@ -89,47 +90,49 @@ function fmix32(h: number): number {
   return h >>> 0;
 }
 
-function byHash(hash: number[], pathIndex: number[]) {
-  return (x: number, y: number) => hash[x] - hash[y] || pathIndex[x] - pathIndex[y];
-}
-
+/**
+ * Candidates of one block: the paths whose hash is below a threshold set so that about 1.1 x keep
+ * paths of the whole run pass it (all paths when the run has at most `keep`). The final sample is
+ * the `keep` smallest hashes among the candidates: with a margin of 0.1 keep >> sqrt(keep) the
+ * threshold almost never leaves fewer than `keep`, and when it does the sample is smaller but still
+ * the same for any split of the run. No per-block sort is needed.
+ */
 function selectKept(
   values: Float64Array,
   dim: number,
   seed: number,
   firstPath: number,
   pathCount: number,
+  totalPaths: number,
   keep: number,
 ): KeptCandidates {
-  const hash = new Array<number>(pathCount);
-  const pathIndex = new Array<number>(pathCount);
-  for (let p = 0; p < pathCount; p++) {
-    pathIndex[p] = firstPath + p;
-    hash[p] = pathHash(seed, firstPath + p);
-  }
-  const order = Array.from({ length: pathCount }, (_, i) => i).sort(byHash(hash, pathIndex));
-  const chosen = order.slice(0, Math.min(keep, pathCount));
+  const threshold = totalPaths <= keep ? Infinity : Math.ceil((1.1 * keep * 2 ** 53) / totalPaths);
   const out: KeptCandidates = { pathIndex: [], hash: [], values: [] };
-  for (const p of chosen) {
-    out.pathIndex.push(pathIndex[p]);
-    out.hash.push(hash[p]);
+  for (let p = 0; p < pathCount; p++) {
+    const h = pathHash(seed, firstPath + p);
+    if (h >= threshold) continue;
+    out.pathIndex.push(firstPath + p);
+    out.hash.push(h);
     for (let j = 0; j < dim; j++) out.values.push(values[p * dim + j]);
   }
   return out;
 }
 
-/** Keep the `keep` candidates with the smallest hashes out of two candidate sets. */
-export function mergeKept(a: KeptCandidates, b: KeptCandidates, dim: number, keep: number = MAX_KEPT): KeptCandidates {
-  const hash = [...a.hash, ...b.hash];
-  const pathIndex = [...a.pathIndex, ...b.pathIndex];
-  const order = Array.from({ length: hash.length }, (_, i) => i).sort(byHash(hash, pathIndex));
+/** Keep the `keep` candidates with the smallest hashes (ties by path index) out of candidate sets. */
+export function mergeKept(sets: KeptCandidates[], dim: number, keep: number = MAX_KEPT): KeptCandidates {
+  const refs: { set: number; row: number }[] = [];
+  sets.forEach((k, set) => {
+    for (let row = 0; row < k.hash.length; row++) refs.push({ set, row });
+  });
+  const h = (r: { set: number; row: number }) => sets[r.set].hash[r.row];
+  const idx = (r: { set: number; row: number }) => sets[r.set].pathIndex[r.row];
+  refs.sort((x, y) => h(x) - h(y) || idx(x) - idx(y));
   const out: KeptCandidates = { pathIndex: [], hash: [], values: [] };
-  for (const i of order.slice(0, keep)) {
-    out.pathIndex.push(pathIndex[i]);
-    out.hash.push(hash[i]);
-    const src = i < a.hash.length ? a.values : b.values;
-    const row = i < a.hash.length ? i : i - a.hash.length;
-    for (let j = 0; j < dim; j++) out.values.push(src[row * dim + j]);
+  for (const r of refs.slice(0, keep)) {
+    out.pathIndex.push(idx(r));
+    out.hash.push(h(r));
+    const v = sets[r.set].values;
+    for (let j = 0; j < dim; j++) out.values.push(v[r.row * dim + j]);
   }
   return out;
 }

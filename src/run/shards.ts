@@ -97,7 +97,7 @@ export function mergeShardFiles(files: string[], version: string): SimulationRes
   if (blockCount(suite) !== first.j.blockCount) throw new MergeError(`${first.file}: block count does not match its suite`);
   const dim = suite.n.length * MEASURES_PER_RECORD;
   const collector = new BlockCollector(suite);
-  let kept = { pathIndex: [] as number[], hash: [] as number[], values: [] as number[] };
+  const keptSets = [];
   const min = new Array<number>(dim).fill(Infinity);
   const max = new Array<number>(dim).fill(-Infinity);
   const blocks = [];
@@ -111,12 +111,12 @@ export function mergeShardFiles(files: string[], version: string): SimulationRes
       throw new MergeError(`${where}: holds blocks [${bs.map((b) => b.block).join(", ")}] but shard ${s.j.shard.index}/${count} must hold [${[...own].join(", ")}] (incomplete shard?)`);
     }
     blocks.push(...bs);
-    kept = mergeKept(kept, keptFromJson(s.j.kept, dim, where), dim);
+    keptSets.push(keptFromJson(s.j.kept, dim, where));
     s.j.min.forEach((x, i) => (min[i] = Math.min(min[i], x ?? Infinity)));
     s.j.max.forEach((x, i) => (max[i] = Math.max(max[i], x ?? -Infinity)));
     wall = Math.max(wall, s.j.wallSeconds);
     workers += s.j.workers;
   }
-  collector.restore({ blocks, kept, min, max });
+  collector.restore({ blocks, kept: mergeKept(keptSets, dim), min, max });
   return collector.result(wall, workers);
 }

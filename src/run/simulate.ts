@@ -27,13 +27,15 @@ export function createKernel(suite: Suite, kind: KernelKind = "wasm", module?: W
 export function runOneBlock(kernel: Kernel, suite: Suite, b: number): BlockOutput {
   const { first, count } = blockRange(suite.paths, blockCount(suite), b);
   const values = kernel.runBlock(b, count);
-  return summarizeBlock(values, suite.n.length, suite.seed, b, first, count);
+  return summarizeBlock(values, suite.n.length, suite.seed, b, first, count, suite.paths);
 }
 
 /** Accumulates block outputs (in any arrival order) into a SimulationResult. */
 export class BlockCollector {
   readonly blocks = new Map<number, BlockStats>();
-  private kept: KeptCandidates = { pathIndex: [], hash: [], values: [] };
+  /** Candidate chunks of the kept sample, compacted to the MAX_KEPT smallest hashes when large. */
+  private kept: KeptCandidates[] = [];
+  private keptCount = 0;
   private readonly dim: number;
   min: number[];
   max: number[];
@@ -47,15 +49,20 @@ export class BlockCollector {
   add(out: BlockOutput): void {
     if (this.blocks.has(out.stats.block)) throw new Error(`block ${out.stats.block} delivered twice`);
     this.blocks.set(out.stats.block, out.stats);
-    this.kept = mergeKept(this.kept, out.kept, this.dim, MAX_KEPT);
+    this.kept.push(out.kept);
+    this.keptCount += out.kept.hash.length;
+    if (this.keptCount > 4 * MAX_KEPT) this.compactKept();
     for (let j = 0; j < this.dim; j++) {
       this.min[j] = Math.min(this.min[j], out.min[j]);
       this.max[j] = Math.max(this.max[j], out.max[j]);
     }
   }
 
-  get keptCandidates(): KeptCandidates {
-    return this.kept;
+  private compactKept(): KeptCandidates {
+    const merged = mergeKept(this.kept, this.dim, MAX_KEPT);
+    this.kept = [merged];
+    this.keptCount = merged.hash.length;
+    return merged;
   }
 
   /** Start from a checkpoint's state (blocks done, kept candidates, extremes). */
@@ -64,14 +71,15 @@ export class BlockCollector {
       if (this.blocks.has(b.block)) throw new Error(`block ${b.block} restored twice`);
       this.blocks.set(b.block, b);
     }
-    this.kept = state.kept;
+    this.kept.push(state.kept);
+    this.keptCount += state.kept.hash.length;
     this.min = [...state.min];
     this.max = [...state.max];
   }
 
   /** The state to write into a checkpoint or a shard file. */
   snapshot(): { blocks: BlockStats[]; kept: KeptCandidates; min: number[]; max: number[] } {
-    return { blocks: [...this.blocks.values()].sort((a, b) => a.block - b.block), kept: this.kept, min: this.min, max: this.max };
+    return { blocks: [...this.blocks.values()].sort((a, b) => a.block - b.block), kept: this.compactKept(), min: this.min, max: this.max };
   }
 
   result(wallSeconds: number, workers: number): SimulationResult {
@@ -81,7 +89,7 @@ export class BlockCollector {
       blocks,
       blockCount: blockCount(this.suite),
       results: resultRecords(this.suite, blocks, this.min, this.max),
-      sample: keptToSample(this.kept, this.dim),
+      sample: keptToSample(this.compactKept(), this.dim),
       min: this.min,
       max: this.max,
       wallSeconds,

@@ -12,7 +12,17 @@ function table(header: string[], rows: string[][]): string {
   return [line(header), line(widths.map((w) => "-".repeat(w))), ...rows.map(line)].join("\n");
 }
 
+/**
+ * The checks as a terminal table. Sources are listed once and referred to by number; details are
+ * printed for every check that did not simply pass (the report files carry all of them).
+ */
 export function renderChecks(r: VerdictReport): string {
+  const sources: string[] = [];
+  const sourceRef = (s: string) => {
+    let i = sources.indexOf(s);
+    if (i < 0) i = sources.push(s) - 1;
+    return `[${i + 1}]`;
+  };
   const rows = r.checks.map((c) => [
     c.id,
     c.verdict,
@@ -22,15 +32,22 @@ export function renderChecks(r: VerdictReport): string {
     c.ci ? `[${num(c.ci[0])}, ${num(c.ci[1])}]` : "-",
     pv(c.pValue),
     pv(c.adjustedPValue),
+    sourceRef(c.source),
   ]);
   const out: string[] = [];
   out.push(`Checks (Holm over gated checks at alpha = ${r.alpha}; ${r.failed} failed)`);
-  out.push(table(["check", "verdict", "gated", "estimate", "expected", "95% CI", "p", "p (Holm)"], rows));
+  out.push(table(["check", "verdict", "gated", "estimate", "expected", "95% CI", "p", "p (Holm)", "source"], rows));
+  const notable = r.checks.filter((c) => c.verdict !== "pass");
+  if (notable.length) {
+    out.push("");
+    for (const c of notable) out.push(`- ${c.id} (${c.verdict}): ${c.detail}`);
+  }
   out.push("");
-  for (const c of r.checks) out.push(`- ${c.id} [${c.source}]: ${c.detail}`);
+  out.push("Sources");
+  sources.forEach((s, i) => out.push(`[${i + 1}] ${s}`));
   if (r.limits.length) {
     out.push("");
-    out.push("Estimated limits");
+    out.push("Estimated limits (whatever was claimed or predicted; the place a conjecture starts)");
     out.push(
       table(
         ["measure", "quantity", "method", "estimate", "95% CI", "beta", "misfit p"],
@@ -45,7 +62,6 @@ export function renderChecks(r: VerdictReport): string {
         ]),
       ),
     );
-    for (const l of r.limits) out.push(`- ${l.measure} ${l.quantity}: ${l.note}`);
   }
   return out.join("\n");
 }
