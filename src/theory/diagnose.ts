@@ -86,7 +86,7 @@ function driftHypotheses(c: Context, relevantVertices: number[] | null): { law: 
     if (v === 0) continue;
     const ws = walksAt(P, v, c.tol.tie);
     if (ws.length > 1) {
-      return { law: "non-normal", reason: `walks[${ws.join(", ")}] share the drift ${vstr(P.points[v])} at a vertex of P (repeated vertex): the maximum of several walks is not Gaussian` };
+      return { law: "non-normal", reason: `walks[${ws.join(", ")}] share the drift ${vstr(P.points[v])} (to relative tolerance ${c.tol.tie}) at a vertex of P (repeated vertex): the maximum of several walks is not Gaussian` };
     }
   }
   return null;
@@ -98,7 +98,7 @@ function nearTieRisks(c: Context): string[] {
   for (let i = 0; i < c.k; i++) {
     for (let j = i + 1; j < c.k; j++) {
       const d = dist(c.drifts[i], c.drifts[j]);
-      if (d > c.tol.tie * s && d <= c.tol.nearTie * s) out.push(`walks[${i}] and walks[${j}] have nearly equal drifts (relative gap ${fmt(d / s)}): slow-convergence risk`);
+      if (d > c.tol.tie * s && d <= c.tol.nearTie * s) out.push(`walks[${i}] and walks[${j}] have nearly equal drifts (relative gap ${fmt(d / s)} <= near-tie tolerance ${c.tol.nearTie}): slow-convergence risk`);
     }
   }
   if (P.hull.length >= 3) {
@@ -216,7 +216,7 @@ function diagnoseDiameter(c: Context): Diagnosis {
   d.sources.push(...(c.k === 1 ? DIAMETER_VARIANCE_SOURCES.slice(0, 1) : DIAMETER_VARIANCE_SOURCES));
   if (dv.pair.gap <= c.tol.tie) {
     d.limitLaw = "non-normal";
-    d.reasons.push("tie for the farthest pair of vertices of P: D_n is a maximum of several asymptotically Gaussian lengths, not normal");
+    d.reasons.push(`tie for the farthest pair of vertices of P (relative gap ${fmt(Math.max(dv.pair.gap, 0))} <= tie tolerance ${c.tol.tie}): D_n is a maximum of several asymptotically Gaussian lengths, not normal`);
     return d;
   }
   const fail = driftHypotheses(c, [dv.pair.a, dv.pair.b]);
@@ -236,7 +236,7 @@ function diagnoseDiameter(c: Context): Diagnosis {
     d.limitLaw = "normal";
     d.reasons.push(`(D_n - E D_n)/sqrt(n) -> N(0, ${fmt(dv.sigma2)})`);
   }
-  if (dv.pair.gap <= c.tol.nearTie) d.reasons.push(`near-tie for the farthest pair (relative gap ${fmt(dv.pair.gap)}): slow-convergence risk`);
+  if (dv.pair.gap <= c.tol.nearTie) d.reasons.push(`near-tie for the farthest pair (relative gap ${fmt(dv.pair.gap)} <= near-tie tolerance ${c.tol.nearTie}): slow-convergence risk`);
   return d;
 }
 
