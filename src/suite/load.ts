@@ -26,8 +26,10 @@ export class SuiteError extends Error {
   }
 }
 
-/** Largest number of stored path points (all walks) per worker: 2^25 points = 512 MiB of coordinates. */
-export const MAX_POINTS_PER_WORKER = 2 ** 25;
+/** Largest number of stored path points (all walks, walks x (n+1)) per worker: 2^24. */
+export const MAX_POINTS_PER_WORKER = 2 ** 24;
+/** Kernel memory per stored point (coordinates, filter and hull buffers), measured from assembly/. */
+export const BYTES_PER_POINT = 112;
 /** Largest number of paths a suite may ask for (2^40: far beyond any machine's budget, catches typos). */
 export const MAX_PATHS = 2 ** 40;
 export const DEFAULT_BLOCKS = 64;
@@ -117,10 +119,10 @@ export function validateSuite(raw: unknown, opts: ValidateOptions = {}): LoadedS
   const nMax = n[n.length - 1];
   const points = walks.length * (nMax + 1);
   if (points > MAX_POINTS_PER_WORKER) {
-    const gib = (points * 16 * 3) / 2 ** 30;
+    const gib = (points * BYTES_PER_POINT) / 2 ** 30;
     throw new SuiteError(
       "n",
-      `largest n = ${nMax} with ${walks.length} walk(s) needs about ${gib.toFixed(1)} GiB per worker; the limit is ${MAX_POINTS_PER_WORKER} stored points (walks x (n+1))`,
+      `largest n = ${nMax} with ${walks.length} walk(s) needs about ${gib.toFixed(1)} GiB per worker; the limit is ${MAX_POINTS_PER_WORKER} stored points (walks x (n+1), ${((MAX_POINTS_PER_WORKER * BYTES_PER_POINT) / 2 ** 30).toFixed(2)} GiB)`,
     );
   }
 
