@@ -40,6 +40,14 @@ function riceMean(nu: number, s: number): number {
 }
 
 describe("E|N(m, C)| by the 1-D integral [derived] vs the Rice / Rayleigh closed forms", () => {
+  it("singular covariance (rank-one formula [derived]) is the limit of non-singular ones (internal consistency)", () => {
+    const m: Vec2 = [1, 0.5];
+    const r = gaussianAbsMean(m, [[1, 0], [0, 0]]);
+    const near = gaussianAbsMean(m, [[1 + 1e-9, 0], [0, 1e-9]], 1e-12);
+    // E|X| moves by O(eps) when eps I is added to the covariance.
+    expect(Math.abs(r.value - near.value)).toBeLessThan(1e-8);
+    expect(Math.abs(gaussianAbsMean([2, 0], [[1, 0], [0, 0]]).value - (Math.sqrt(2 / Math.PI) * Math.exp(-2) + 2 * 0.9544997361036416))).toBeLessThan(1e-12);
+  });
   it("Rayleigh mean s sqrt(pi/2)", () => {
     for (const s of [0.3, 1, 2.5]) {
       const r = gaussianAbsMean([0, 0], [[s * s, 0], [0, s * s]]);
