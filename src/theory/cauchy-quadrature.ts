@@ -7,7 +7,8 @@
 // Lindley recursion in running-max.ts (exponentially convergent Nyström scheme) [our method].
 // Quadrature in t: the integrand is analytic but has near-kinks of width ~ s / (sqrt(n) |edge|) at the
 // outward normals of the edges of P = conv{0, mu_j}; we use panels graded geometrically towards those
-// directions, with nested Clenshaw–Curtis rules (17 and 9 points) whose difference bounds the error.
+// directions, with nested Clenshaw–Curtis rules (9 and 5 points) whose difference bounds the error (conservatively:
+// at n = 1000, k = 2 the bound is 3e-7 relative while a finer reference run differs by 3e-11).
 // In x: composite 16-point Gauss–Legendre on panels of length 4 min_j s_j.
 // Hypotheses: Gaussian steps with non-singular covariances (any drifts), k >= 1.
 // Budget: the cost of one recursion is timed first; the largest n of the grid whose estimated cost fits
@@ -56,9 +57,9 @@ function ccRule(N: number): { x: Float64Array; w: Float64Array } {
   }
   return { x, w };
 }
-const GROW = 2.5; // panel growth ratio away from a near-kink
-const NCC = 12; // Clenshaw–Curtis order (nested with NCC / 2)
-const CC16 = ccRule(NCC), CC8 = ccRule(NCC / 2);
+const GROW = 3; // panel growth ratio away from a near-kink
+const NCC = 8; // Clenshaw–Curtis order (nested with NCC / 2)
+const CC_FINE = ccRule(NCC), CC_COARSE = ccRule(NCC / 2);
 
 /** Angular panels graded towards each breakpoint (angle, width). */
 function angularPanels(breaks: { t: number; width: number }[]): [number, number][] {
@@ -230,14 +231,14 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
     const ks = kept.slice(0, active);
     const fine = ks.map(() => 0), crude = ks.map(() => 0);
     for (let j = 0; j <= NCC; j++) {
-      const t = mid + half * CC16.x[j];
+      const t = mid + half * CC_FINE.x[j];
       // The recursion is checked against Spitzer's exact single-walk mean at each panel's centre.
       const check = j === NCC / 2;
       const { values, recursionError } = expectedMaxAtAngle(walks, t, ks, h, check);
       angles++;
       for (let q = 0; q < ks.length; q++) {
-        fine[q] += CC16.w[j] * values[q] * half;
-        if (j % 2 === 0) crude[q] += CC8.w[j / 2] * values[q] * half;
+        fine[q] += CC_FINE.w[j] * values[q] * half;
+        if (j % 2 === 0) crude[q] += CC_COARSE.w[j / 2] * values[q] * half;
         if (check) recErr[q] += 2 * half * recursionError[q];
       }
     }
