@@ -23,6 +23,7 @@ import { renderJunit, reportJunit } from "./report/junit.js";
 import { DEFAULT_DIFF_ALPHA, DiffInputError, diffCases, diffReports, readDiffInput, renderDiff } from "./report/diff.js";
 import { samplesCsv } from "./report/samples.js";
 import { createKernel } from "./run/simulate.js";
+import { planSuite, renderPlan, type PlanGoal } from "./plan/plan.js";
 
 export const EXIT_OK = 0;
 export const EXIT_CHECK_FAILED = 1;
@@ -39,6 +40,8 @@ const HELP = `walkhull: simulate convex hulls of planar random walks and check l
 Usage:
   walkhull run <suite.json> [options]      simulate a suite, check claims and predictions, report
   walkhull predict <suite.json> [--json]   analytic predictions and hypothesis diagnosis
+  walkhull plan <suite.json> (--target-se X | --detect REL) [--workers N] [--pilot-paths N]
+                                           paths and wall time for a target SE on Var/n^p at the largest n
   walkhull help [command]                  this text
 
   walkhull merge <shard.json>... --out F  combine shard results into one report (same bits as one run)
@@ -312,6 +315,26 @@ async function cmdPredict(args: string[]): Promise<number> {
   return EXIT_OK;
 }
 
+async function cmdPlan(args: string[]): Promise<number> {
+  const { flags, positionals } = parse(args, { "target-se": { type: "string" }, detect: { type: "string" }, workers: { type: "string" }, "pilot-paths": { type: "string" } });
+  const file = onePositional(positionals, "plan");
+  const se = flags["target-se"], rel = flags.detect;
+  if ((se === undefined) === (rel === undefined)) throw new UsageError("plan: give exactly one of --target-se X or --detect REL");
+  const positive = (v: string | boolean | undefined, name: string): number => {
+    const x = typeof v === "string" && v.trim() !== "" ? Number(v) : NaN;
+    if (!(x > 0) || !Number.isFinite(x)) throw new UsageError(`--${name}: expected a positive number, got ${JSON.stringify(v)}`);
+    return x;
+  };
+  const goal: PlanGoal = se !== undefined ? { kind: "target-se", se: positive(se, "target-se") } : { kind: "detect", rel: positive(rel, "detect") };
+  const workers = intFlag(flags, "workers");
+  if (workers === 0) throw new UsageError("--workers: must be >= 1");
+  const pilotPaths = intFlag(flags, "pilot-paths");
+  if (pilotPaths !== undefined && pilotPaths < 200) throw new UsageError("--pilot-paths: must be >= 200");
+  const suite = loadSuite(file);
+  process.stdout.write(renderPlan(planSuite(suite, { goal, workers: workers ?? 1, pilotPaths })) + "\n");
+  return EXIT_OK;
+}
+
 export async function main(argv: string[]): Promise<number> {
   const [cmd, ...rest] = argv;
   try {
@@ -324,6 +347,8 @@ export async function main(argv: string[]): Promise<number> {
         return await cmdMerge(rest);
       case "diff":
         return await cmdDiff(rest);
+      case "plan":
+        return await cmdPlan(rest);
       case undefined:
       case "help":
       case "--help":
@@ -331,7 +356,7 @@ export async function main(argv: string[]): Promise<number> {
         process.stdout.write(HELP + "\n");
         return cmd === undefined ? EXIT_BAD_INPUT : EXIT_OK;
       default:
-        throw new UsageError(`unknown command ${JSON.stringify(cmd)} (commands: run, predict, merge, diff, help)`);
+        throw new UsageError(`unknown command ${JSON.stringify(cmd)} (commands: run, predict, plan, merge, diff, help)`);
     }
   } catch (e) {
     if (e instanceof SuiteError || e instanceof UsageError) {

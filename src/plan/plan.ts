@@ -1,0 +1,247 @@
+// Run planner: how many paths (and how much wall time on this machine) a suite needs so that the
+// variance at its largest n reaches a target standard error, or detects a given relative error.
+//
+// Variance of the variance estimator: Var(s^2) = mu4/N - (N-3) sigma^4 / (N(N-1)) (plug-in of the
+// 4th central moment; e.g. Kendall & Stuart, The Advanced Theory of Statistics vol. 1, sampling
+// moments of k-statistics), the same formula as src/stats/moments.ts uses for varianceSE. For a
+// normal measure mu4 = 3 sigma^4 and Var(s^2) = 2 sigma^4 / (N - 1), so the target SE needs
+// N = 1 + 2 sigma^4 / SE^2 paths.
+// Detection: a relative error REL in sigma^2 is found at two-sided level alpha with power 1 - beta
+// when (z_{1-alpha/2} + z_{1-beta}) SE_N <= REL sigma^2 (the usual normal-approximation sample
+// size for a z-test; common practice).
+
+import { normalQuantile } from "../stats/normal.js";
+import { mergeAll } from "../stats/moments.js";
+import type { MomentState } from "../stats/types.js";
+import { KERNEL_MEASURES, MEASURES_PER_RECORD } from "../engine/types.js";
+import { simulateInProcess } from "../run/simulate.js";
+import type { LoadedSuite, Measure } from "../suite/schema.js";
+import { predict } from "../theory/predict.js";
+import { extrapolate } from "../verdict/extrapolate.js";
+
+/** Default power of the detection plan. */
+export const DEFAULT_POWER = 0.9;
+/** Default paths of the pilot run. */
+export const DEFAULT_PILOT_PATHS = 4000;
+
+/** Var(s^2) for N paths of a measure with variance sigma2 and 4th central moment mu4. */
+export function varianceOfVariance(mu4: number, sigma2: number, N: number): number {
+  if (!(N > 1)) throw new Error(`N: need more than one path, got ${N}`);
+  return mu4 / N - ((N - 3) / (N - 1)) * (sigma2 * sigma2) / N;
+}
+
+function checkMoments(mu4: number, sigma2: number): void {
+  if (!(sigma2 > 0) || !Number.isFinite(sigma2)) throw new Error(`sigma2: expected a positive finite variance, got ${sigma2}`);
+  if (!(mu4 >= sigma2 * sigma2 * (1 - 1e-12)) || !Number.isFinite(mu4)) {
+    throw new Error(`mu4: expected a finite 4th central moment >= sigma^4 = ${sigma2 * sigma2}, got ${mu4}`);
+  }
+}
+
+/**
+ * Smallest N (>= 4) with sqrt(Var(s^2)) <= targetSE. Var(s^2) = (mu4 - sigma^4)/N + 2 sigma^4/(N(N-1))
+ * decreases in N, so a doubling search then bisection on integers finds it.
+ */
+export function pathsForTargetSE(mu4: number, sigma2: number, targetSE: number): number {
+  checkMoments(mu4, sigma2);
+  if (!(targetSE > 0) || !Number.isFinite(targetSE)) throw new Error(`targetSE: expected a positive number, got ${targetSE}`);
+  const t2 = targetSE * targetSE;
+  const ok = (N: number) => varianceOfVariance(mu4, sigma2, N) <= t2;
+  let lo = 3; // not ok by convention (the estimator needs N >= 4)
+  let hi = 4;
+  while (!ok(hi)) {
+    lo = hi;
+    hi *= 2;
+    if (hi > 2 ** 60) throw new Error(`targetSE: ${targetSE} needs more than 2^60 paths`);
+  }
+  while (hi - lo > 1) {
+    const mid = Math.floor((lo + hi) / 2);
+    if (ok(mid)) hi = mid;
+    else lo = mid;
+  }
+  return hi;
+}
+
+/** The SE on sigma^2 that detects a relative error `rel` at two-sided level alpha with the given power. */
+export function detectionSE(sigma2: number, rel: number, alpha: number, power = DEFAULT_POWER): number {
+  if (!(rel > 0) || !Number.isFinite(rel)) throw new Error(`detect: expected a positive relative error, got ${rel}`);
+  if (!(alpha > 0 && alpha < 1)) throw new Error(`alpha: expected a number in (0, 1), got ${alpha}`);
+  if (!(power > 0 && power < 1)) throw new Error(`power: expected a number in (0, 1), got ${power}`);
+  const z = normalQuantile(1 - alpha / 2) + normalQuantile(power);
+  return (rel * sigma2) / z;
+}
+
+/** Paths to detect a relative error `rel` in sigma^2 (see detectionSE). */
+export function pathsToDetect(mu4: number, sigma2: number, rel: number, alpha: number, power = DEFAULT_POWER): number {
+  return pathsForTargetSE(mu4, sigma2, detectionSE(sigma2, rel, alpha, power));
+}
+
+export type PlanGoal = { kind: "target-se"; se: number } | { kind: "detect"; rel: number };
+
+export interface MeasurePlan {
+  measure: Measure;
+  /** The largest n of the suite: the plan is for Var(X_n)/n^p there. */
+  n: number;
+  /** p in Var/n^p (the prediction's varianceScaling, or 1). */
+  scaling: number;
+  /** Pilot estimates of sigma^2/n^p and of the kurtosis mu4/sigma^4. */
+  sigma2: number;
+  kurtosis: number;
+  /** The target standard error on sigma^2/n^p (given, or implied by the detection goal). */
+  targetSE: number;
+  /** Paths for the target at the largest n, and the wall time on `workers` workers. */
+  paths: number;
+  seconds: number;
+  /**
+   * SE(extrapolated limit) / SE(ratio at the largest n) from the pilot's own extrapolation, null
+   * when the pilot cannot extrapolate (then the limit's SE is not included in the plan).
+   */
+  inflation: number | null;
+  /** Paths for the same target on the extrapolated limit: paths * inflation^2 (null with inflation). */
+  limitPaths: number | null;
+  limitSeconds: number | null;
+  note: string;
+}
+
+export interface SuitePlan {
+  title: string;
+  goal: PlanGoal;
+  alpha: number;
+  power: number;
+  workers: number;
+  pilotPaths: number;
+  /** Measured seconds per path on one core (pilot, after its first block). */
+  secondsPerPath: number;
+  measures: MeasurePlan[];
+}
+
+export interface PlanOptions {
+  goal: PlanGoal;
+  workers?: number;
+  pilotPaths?: number;
+  power?: number;
+  /** Seconds for predict()'s quadratures (only varianceScaling is used). */
+  predictBudgetSeconds?: number;
+}
+
+/** Pilot statistics of one measure at the largest n, from the per-block moments. */
+function pooled(blocks: MomentState[]): { sigma2: number; mu4: number } {
+  const m = mergeAll(blocks);
+  return { sigma2: m.m2 / (m.count - 1), mu4: m.m4 / m.count };
+}
+
+/**
+ * Plans a suite: a pilot of `pilotPaths` paths on this thread measures the cost per path (timed
+ * from the end of the first block, so compilation and warm-up are left out) and the moments.
+ * Wall time assumes `workers` workers scale linearly (see the bench's parallel efficiency).
+ */
+export function planSuite(suite: LoadedSuite, opts: PlanOptions): SuitePlan {
+  const workers = opts.workers ?? 1;
+  if (!Number.isInteger(workers) || workers < 1) throw new Error(`workers: expected a positive integer, got ${workers}`);
+  const pilotPaths = opts.pilotPaths ?? DEFAULT_PILOT_PATHS;
+  if (!Number.isInteger(pilotPaths) || pilotPaths < 200) throw new Error(`pilotPaths: expected an integer >= 200, got ${pilotPaths}`);
+  const power = opts.power ?? DEFAULT_POWER;
+  const alpha = suite.alpha ?? 0.01;
+  if (opts.goal.kind === "target-se" && !(opts.goal.se > 0)) throw new Error(`target-se: expected a positive number, got ${opts.goal.se}`);
+  if (opts.goal.kind === "detect" && !(opts.goal.rel > 0)) throw new Error(`detect: expected a positive number, got ${opts.goal.rel}`);
+
+  const pilot: LoadedSuite = { ...suite, paths: pilotPaths };
+  let tFirst = 0;
+  let pathsFirst = 0;
+  let pathsAll = 0;
+  const sim = simulateInProcess(pilot, {
+    onBlock: (done, _total, paths) => {
+      if (done === 1) { tFirst = performance.now(); pathsFirst = paths; }
+      pathsAll = paths;
+    },
+  });
+  const tEnd = performance.now();
+  const secondsPerPath = pathsAll > pathsFirst ? (tEnd - tFirst) / 1000 / (pathsAll - pathsFirst) : sim.wallSeconds / pathsAll;
+
+  let scalings: Map<Measure, number>;
+  try {
+    const pred = predict(suite, { budgetSeconds: opts.predictBudgetSeconds ?? 5 });
+    scalings = new Map(pred.measures.map((m) => [m.measure, m.varianceScaling]));
+  } catch {
+    scalings = new Map();
+  }
+  const G = suite.n.length;
+  const nMax = suite.n[G - 1];
+  const measures = suite.measure.map((measure): MeasurePlan => {
+    const mi = KERNEL_MEASURES.indexOf(measure);
+    const p = scalings.get(measure) ?? 1;
+    const scale = Math.pow(nMax, p);
+    const atLast = sim.blocks.map((b) => b.moments[(G - 1) * MEASURES_PER_RECORD + mi]);
+    const raw = pooled(atLast);
+    const sigma2 = raw.sigma2 / scale;
+    const mu4 = raw.mu4 / (scale * scale);
+    const base = { measure, n: nMax, scaling: p, sigma2, kurtosis: sigma2 > 0 ? mu4 / (sigma2 * sigma2) : NaN };
+    if (!(sigma2 > 0)) {
+      return { ...base, targetSE: NaN, paths: NaN, seconds: NaN, inflation: null, limitPaths: null, limitSeconds: null, note: "no spread in the pilot: nothing to plan" };
+    }
+    const targetSE = opts.goal.kind === "target-se" ? opts.goal.se : detectionSE(sigma2, opts.goal.rel, alpha, power);
+    const paths = pathsForTargetSE(mu4, sigma2, targetSE);
+    const seconds = (paths * secondsPerPath) / workers;
+    let inflation: number | null = null;
+    let note: string;
+    try {
+      const ex = extrapolate({
+        measure, quantity: "varianceLimit", scaling: p, n: suite.n,
+        blocks: sim.blocks.map((b) => suite.n.map((_, g) => b.moments[g * MEASURES_PER_RECORD + mi])),
+        expectedRate: suite.expectedRate ?? 0.5,
+      });
+      const last = ex.limit.ratios[ex.limit.ratios.length - 1];
+      if (ex.limit.method !== "none" && last.standardError > 0 && Number.isFinite(ex.limit.standardError)) {
+        inflation = ex.limit.standardError / last.standardError;
+        note = `limit extrapolated by the pilot (${ex.limit.method}): its SE is ${inflation.toFixed(2)}x the SE at n = ${nMax}`;
+      } else {
+        note = "the pilot cannot extrapolate this grid: the limit's extra SE is not included";
+      }
+    } catch (e) {
+      note = `pilot extrapolation failed (${(e as Error).message}): the limit's extra SE is not included`;
+    }
+    const limitPaths = inflation === null ? null : Math.ceil(paths * inflation * inflation);
+    return {
+      ...base, targetSE, paths, seconds, inflation, limitPaths,
+      limitSeconds: limitPaths === null ? null : (limitPaths * secondsPerPath) / workers, note,
+    };
+  });
+  return { title: suite.title, goal: opts.goal, alpha, power, workers, pilotPaths, secondsPerPath, measures };
+}
+
+function fmtTime(s: number): string {
+  if (!Number.isFinite(s)) return "-";
+  if (s < 120) return `${s.toFixed(1)} s`;
+  if (s < 7200) return `${(s / 60).toFixed(1)} min`;
+  return `${(s / 3600).toFixed(1)} h`;
+}
+
+function g4(x: number): string {
+  return Number.isFinite(x) ? x.toPrecision(4) : "-";
+}
+
+/** Plain-text rendering of a plan. */
+export function renderPlan(plan: SuitePlan): string {
+  const goal = plan.goal.kind === "target-se"
+    ? `target SE ${plan.goal.se} on sigma^2 = Var/n^p`
+    : `detect a relative error ${plan.goal.rel} in sigma^2 = Var/n^p (two-sided alpha ${plan.alpha}, power ${plan.power})`;
+  const lines = [
+    `${plan.title}`,
+    `goal: ${goal}`,
+    `pilot: ${plan.pilotPaths} paths, ${(plan.secondsPerPath * 1e3).toPrecision(3)} ms per path on one core; times below for ${plan.workers} worker(s), assuming linear scaling`,
+    "",
+    "| measure | n | p | sigma^2 (pilot) | mu4/sigma^4 | target SE | paths | time | limit SE inflation | paths for the limit | time |",
+    "|---|---|---|---|---|---|---|---|---|---|---|",
+  ];
+  for (const m of plan.measures) {
+    lines.push(`| ${m.measure} | ${m.n} | ${m.scaling} | ${g4(m.sigma2)} | ${g4(m.kurtosis)} | ${g4(m.targetSE)} | ${Number.isFinite(m.paths) ? m.paths : "-"} | ${fmtTime(m.seconds)} | ` +
+      `${m.inflation === null ? "not included" : m.inflation.toFixed(2)} | ${m.limitPaths ?? "-"} | ${m.limitSeconds === null ? "-" : fmtTime(m.limitSeconds)} |`);
+  }
+  lines.push(
+    "",
+    "The paths and times are for sigma^2 = Var(X_n)/n^p at the LARGEST n of the suite. The extrapolated",
+    "limit n -> infinity has a larger SE: the inflation column is SE(limit)/SE(largest n) from the pilot's",
+    "own extrapolation (itself noisy at pilot size); 'paths for the limit' = paths x inflation^2.",
+  );
+  for (const m of plan.measures) lines.push(`- ${m.measure}: ${m.note}`);
+  return lines.join("\n");
+}
