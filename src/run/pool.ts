@@ -29,7 +29,7 @@ export interface PoolOptions {
   shouldStop?: () => boolean;
   /** Reported problems (a worker failed and its block is re-run...). */
   onWarning?: (message: string) => void;
-  /** Testing hook: the first worker throws when it starts this block (its block must be re-run). */
+  /** Testing hook: the worker that first receives this block throws (the block must be re-run). */
   failOnceAtBlock?: number;
 }
 
@@ -79,9 +79,7 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcom
     };
 
     const spawn = () => {
-      const failAtBlock = failArmed ? opts.failOnceAtBlock : undefined;
-      failArmed = false;
-      const worker = new Worker(WORKER_URL, { workerData: { suite, kernel: opts.kernel, module, failAtBlock } });
+      const worker = new Worker(WORKER_URL, { workerData: { suite, kernel: opts.kernel, module } });
       live.add(worker);
       let current: number | null = null;
 
@@ -97,7 +95,9 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcom
           return;
         }
         current = b;
-        worker.postMessage({ block: b });
+        const fail = failArmed && b === opts.failOnceAtBlock;
+        if (fail) failArmed = false;
+        worker.postMessage({ block: b, fail });
       };
 
       const lost = (why: string) => {

@@ -4,11 +4,11 @@ import { parentPort, workerData } from "node:worker_threads";
 import { createKernel, runOneBlock, type KernelKind } from "./simulate.js";
 import type { LoadedSuite } from "../suite/schema.js";
 
-const data = workerData as { suite: LoadedSuite; kernel: KernelKind; module?: WebAssembly.Module; failAtBlock?: number };
+const data = workerData as { suite: LoadedSuite; kernel: KernelKind; module?: WebAssembly.Module };
 const kernel = createKernel(data.suite, data.kernel, data.module);
 
-parentPort!.on("message", (msg: { block: number }) => {
-  if (msg.block === data.failAtBlock) throw new Error(`planted failure at block ${msg.block} (testing hook)`);
+parentPort!.on("message", (msg: { block: number; fail?: boolean }) => {
+  if (msg.fail) throw new Error(`planted failure at block ${msg.block} (testing hook)`);
   try {
     parentPort!.postMessage({ block: msg.block, out: runOneBlock(kernel, data.suite, msg.block) });
   } catch (e) {
