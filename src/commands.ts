@@ -42,11 +42,10 @@ Usage:
   walkhull predict <suite.json> [--json]   analytic predictions and hypothesis diagnosis
   walkhull plan <suite.json> (--target-se X | --detect REL) [--workers N] [--pilot-paths N]
                                            paths and wall time for a target SE on Var/n^p at the largest n
-  walkhull help [command]                  this text
-
   walkhull merge <shard.json>... --out F  combine shard results into one report (same bits as one run)
   walkhull diff <baseline.json> <current.json> [--alpha A] [--junit FILE] [--statistical]
                                            regression check of two reports (exit 1 on a significant change)
+  walkhull help                            this text
 
 run options:
   --paths N        override the suite's number of paths
@@ -63,6 +62,8 @@ run options:
   --report DIR     also write DIR/report.json, DIR/report.md and DIR/report.html (run and merge)
   --junit FILE     JUnit XML, one testcase per check (run, merge and diff)
   --samples FILE   CSV of the kept per-path values: path, <measure>@<n>... (run and merge)
+  --predict-budget S  seconds the numerical predictions may take (run/merge default 10, predict 60);
+                   finite-n means that do not fit are left out, and the reasons say so
 
 diff: exact bit comparison when seed, suite hash and version match; otherwise two-sample z-tests
 of every mean and variance, Holm over the family at --alpha (default 0.01); --statistical forces
@@ -81,6 +82,18 @@ function parse(args: string[], options: ParseArgsConfig["options"]): { flags: Fl
   } catch (e) {
     throw new UsageError((e as Error).message);
   }
+}
+
+/** Default wall-time budgets of the numerical predictions: `predict` may take longer than `run`. */
+const RUN_PREDICT_BUDGET = 10;
+const PREDICT_BUDGET = 60;
+
+function secondsFlag(flags: Flags, name: string, fallback: number): number {
+  const v = flags[name];
+  if (v === undefined) return fallback;
+  const x = typeof v === "string" ? Number(v) : NaN;
+  if (!(x > 0) || !Number.isFinite(x)) throw new UsageError(`--${name}: expected a positive number of seconds, got ${JSON.stringify(v)}`);
+  return x;
 }
 
 function intFlag(flags: Flags, name: string): number | undefined {
@@ -119,6 +132,8 @@ interface FinishOptions {
   quiet: boolean;
   withChecks: boolean;
   startedAt: Date;
+  /** Seconds the numerical predictions may take (--predict-budget). */
+  predictBudget: number;
   /** --report DIR, --junit FILE, --samples FILE */
   reportDir?: string;
   junit?: string;
@@ -148,7 +163,7 @@ function sampleGeometry(sim: SimulationResult): HtmlExtras {
 /** Predictions, verdicts, the tables on stdout and the report file: shared by run and merge. */
 function finish(sim: SimulationResult, opts: FinishOptions): number {
   const suite = sim.suite;
-  const prediction = opts.withChecks ? predict(suite) : undefined;
+  const prediction = opts.withChecks ? predict(suite, { budgetSeconds: opts.predictBudget }) : undefined;
   const verdicts = prediction ? evaluateChecks(sim, prediction) : undefined;
   const report = buildReport(sim, opts.startedAt, { predictions: prediction, checks: verdicts?.checks, limits: verdicts?.limits });
   report.exitCode = verdicts && verdicts.failed > 0 ? EXIT_CHECK_FAILED : EXIT_OK;
@@ -193,6 +208,7 @@ async function cmdRun(args: string[]): Promise<number> {
     checkpoint: { type: "string" },
     resume: { type: "boolean" },
     "stop-after-blocks": { type: "string" },
+    "predict-budget": { type: "string" },
     report: { type: "string" },
     junit: { type: "string" },
     samples: { type: "string" },
@@ -209,6 +225,7 @@ async function cmdRun(args: string[]): Promise<number> {
   const shard = parseShard(flags.shard);
   if (shard && !out) throw new UsageError("--shard: give --out FILE for the shard result (merge them with walkhull merge)");
   const stopAfter = intFlag(flags, "stop-after-blocks");
+  const predictBudget = secondsFlag(flags, "predict-budget", RUN_PREDICT_BUDGET);
   const outputs = outputFlags(flags);
   if (shard && (outputs.reportDir || outputs.junit || outputs.samples)) throw new UsageError("--report, --junit and --samples apply to full runs; merge the shards, then report");
   const suite = loadSuite(file, { paths, seed: intFlag(flags, "seed") });
@@ -242,7 +259,7 @@ async function cmdRun(args: string[]): Promise<number> {
     process.stdout.write(`shard ${shard.index}/${shard.count}: ${sim.blocks.length} blocks, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths -> ${out}\n`);
     code = EXIT_OK;
   } else {
-    code = finish(sim, { out, quiet, withChecks: !flags["no-checks"], startedAt, ...outputs });
+    code = finish(sim, { out, quiet, withChecks: !flags["no-checks"], startedAt, predictBudget, ...outputs });
   }
   rmSync(checkpoint, { force: true });
   return code;
@@ -253,6 +270,7 @@ async function cmdMerge(args: string[]): Promise<number> {
     out: { type: "string" },
     quiet: { type: "boolean" },
     "no-checks": { type: "boolean" },
+    "predict-budget": { type: "string" },
     report: { type: "string" },
     junit: { type: "string" },
     samples: { type: "string" },
@@ -268,7 +286,7 @@ async function cmdMerge(args: string[]): Promise<number> {
     if (e instanceof MergeError) throw new UsageError(e.message);
     throw e;
   }
-  return finish(sim, { out, quiet: Boolean(flags.quiet), withChecks: !flags["no-checks"], startedAt: new Date(), ...outputs });
+  return finish(sim, { out, quiet: Boolean(flags.quiet), withChecks: !flags["no-checks"], startedAt: new Date(), predictBudget: secondsFlag(flags, "predict-budget", RUN_PREDICT_BUDGET), ...outputs });
 }
 
 function readReportFile(path: string, label: string): unknown {
@@ -308,9 +326,10 @@ async function cmdDiff(args: string[]): Promise<number> {
 }
 
 async function cmdPredict(args: string[]): Promise<number> {
-  const { flags, positionals } = parse(args, { json: { type: "boolean" } });
+  const { flags, positionals } = parse(args, { json: { type: "boolean" }, "predict-budget": { type: "string" } });
+  const budgetSeconds = secondsFlag(flags, "predict-budget", PREDICT_BUDGET);
   const suite = loadSuite(onePositional(positionals, "predict"));
-  const p = predict(suite);
+  const p = predict(suite, { budgetSeconds });
   process.stdout.write(flags.json ? JSON.stringify(p, null, 1) + "\n" : renderPredictionTable(p) + "\n");
   return EXIT_OK;
 }
