@@ -14,5 +14,8 @@ export {
   drawSteps,
   hullOfPoints,
   measureHull,
+  benchPaths,
+  benchSurvival,
+  benchResetStats,
 } from "./simulate";
 export { fillNormals, fillNormalsPolar, nextSubstream, zigTable } from "./rng";

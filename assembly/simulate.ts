@@ -320,13 +320,8 @@ function chainCandidates(): i32 {
   return hullCount;
 }
 
-/**
- * Simulates one path; writes G * 4 values (perimeter, diameter, area, vertices per grid n).
- * Each walk's new points are filtered against the polygon of their own extremes, in the frame
- * of that walk's own cloud (so k needles pointing different ways are each filtered well): a point
- * strictly inside one walk's hull is strictly inside the hull of all walks.
- */
-export function runPath(out: usize): void {
+/** Draws the steps of every walk of one path into PX/PY and their cumulative moments into SEG. */
+function generateWalks(): void {
   const stride = N + 1;
   for (let q = 0; q < 5 * G * K; q++) store<f64>(SEG + (<usize>q << 3), 0.0);
   for (let j = 0; j < K; j++) {
@@ -374,6 +369,17 @@ export function runPath(out: usize): void {
       store<f64>(o + 32, syy);
     }
   }
+}
+
+/**
+ * Simulates one path; writes G * 4 values (perimeter, diameter, area, vertices per grid n).
+ * Each walk's new points are filtered against the polygon of their own extremes, in the frame
+ * of that walk's own cloud (so k needles pointing different ways are each filtered well): a point
+ * strictly inside one walk's hull is strictly inside the hull of all walks.
+ */
+export function runPath(out: usize): void {
+  generateWalks();
+  const stride = N + 1;
   let prev = 0;
   for (let g = 0; g < G; g++) {
     const hi = gridAt(g);
@@ -443,4 +449,74 @@ export function measureHull(out: usize): void {
   store<f64>(out + 8, diameter(HX, HY, hullCount));
   store<f64>(out + 16, area(HX, HY, hullCount));
   store<f64>(out + 24, <f64>hullCount);
+}
+
+// ---- Bench entry points (per-stage timing; not used by the kernel API). ----
+let statGathered: f64 = 0;
+let statKept: f64 = 0;
+
+/**
+ * Runs `count` paths of the current block stream through the pipeline's stages up to `level`:
+ * 0 normals only (PRNG + ziggurat, 2 per step and walk), 1 + walk positions and moments,
+ * 2 + extremes and point filter, 3 + sort and monotone chain, 4 + perimeter, 5 + diameter,
+ * 6 + area (= runPaths without storing). Differences between levels give each stage's cost.
+ * Returns a checksum; benchSurvival() gives the filter's survival fraction over these calls.
+ */
+export function benchPaths(count: i32, level: i32): f64 {
+  let check = 0.0;
+  for (let p = 0; p < count; p++) {
+    if (level == 0) {
+      for (let j = 0; j < K; j++) {
+        nextSubstream();
+        fillNormals(NZ, N << 1);
+        check += load<f64>(NZ);
+      }
+      continue;
+    }
+    generateWalks();
+    if (level == 1) {
+      check += load<f64>(PX + (<usize>N << 3));
+      continue;
+    }
+    const stride = N + 1;
+    let prev = 0;
+    for (let g = 0; g < G; g++) {
+      const hi = gridAt(g);
+      candCount = 0;
+      if (g == 0) append(PX, PY, 0, 1);
+      else append(HX, HY, 0, hullCount);
+      for (let j = 0; j < K; j++) {
+        const o = SEG + (<usize>(5 * (j * G + g)) << 3);
+        setFrame(<f64>(1 + hi), load<f64>(o), load<f64>(o + 8), load<f64>(o + 16), load<f64>(o + 24), load<f64>(o + 32));
+        const base = j * stride;
+        const start = candCount;
+        gatherGroup(PX, PY, base + prev + 1, base + hi + 1);
+        filterCandidates(start);
+        statGathered += <f64>(hi - prev);
+        statKept += <f64>(candCount - start);
+      }
+      if (level == 2) {
+        check += <f64>candCount;
+        hullCount = 0;
+      } else {
+        const h = chainCandidates();
+        check += <f64>h;
+        if (level >= 4) check += perimeter(HX, HY, h);
+        if (level >= 5) check += diameter(HX, HY, h);
+        if (level >= 6) check += area(HX, HY, h);
+      }
+      prev = hi;
+    }
+  }
+  return check;
+}
+
+/** Survival fraction of the point filter (kept / new points) since the last benchResetStats. */
+export function benchSurvival(): f64 {
+  return statGathered > 0 ? statKept / statGathered : 0.0;
+}
+
+export function benchResetStats(): void {
+  statGathered = 0;
+  statKept = 0;
 }
