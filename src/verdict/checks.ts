@@ -108,7 +108,11 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
     else if (uncalibrated && quantity === "varianceLimit")
       why = "the prediction marks variance checks uncalibrated (e.g. steps without a finite 4th moment: the SE of the variance is unreliable)";
     else if (!ex.testable)
-      why = L.method === "none" ? `no extrapolation possible, finite-n bias unknown (${power} = ${fmt(L.estimate)} at n = ${grid[G - 1]}, z = ${fmt(t.statistic, 3)} against the value, not a calibrated test)` : "the rate model has no degree of freedom left to test its fit";
+      why = L.method === "none"
+        ? `no extrapolation possible, finite-n bias unknown (${power} = ${fmt(L.estimate)} at n = ${grid[G - 1]}, z = ${fmt(t.statistic, 3)} against the value, not a calibrated test)`
+        : L.systematic === null || L.systematic === undefined
+          ? "the systematic (model) uncertainty of the extrapolation is not estimable on this grid (too few points to refit it another way)"
+          : "the rate model has no degree of freedom left to test its fit";
     else if (L.misfitPValue !== null && L.misfitPValue < alpha)
       why = `the extrapolation model misfits the grid (chi-square p = ${fmtP(L.misfitPValue)} < ${alpha}): the limit is not trusted`;
     if (why !== null) {
@@ -120,7 +124,8 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
       {
         ...base, pValue: t.pValue, verdict: "pass", gated: true,
         detail:
-          (t.statisticKind === "profile-LR" ? "Profile likelihood-ratio test (chi-square 1 df). " : L.method === "fixed" ? "z test under each assumed rate; the gated p-value is the least significant one. " : "z test on the extrapolated limit. ") +
+          `z = (estimate - expected)/sqrt(se_stat^2 + se_syst^2) = ${fmt(t.statistic, 3)}, se_stat from the side of the statistical interval facing the value, se_syst = ${fmt(L.systematic ?? NaN, 3)} (model uncertainty). ` +
+          (L.method === "fixed" ? "z test under each assumed rate; the gated p-value is the least significant one. " : "") +
           method + (rateDependent ? " The value is rejected under some assumed rates and not others: inconclusive unless rejected under all." : ""),
       },
       rateDependent ? "inconclusive" : "pass",

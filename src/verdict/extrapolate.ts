@@ -9,10 +9,26 @@
 // - <= 2 points: no extrapolation; the ratio at the largest n is reported, bias unknown.
 // - Mean of the perimeter with q = 1: E L_n = n perimeter(P) + c log n + C + o(1) (MATH.md,
 //   [derived] for one walk, assumed for several), so E L_n/n = g + (a ln n + b)/n is fitted by
+//   linear GLS; the same model is used for the diameter at q = 1 (a linear diameter needs a drift;
+//   E D_n = n|a - b| + O(1), log terms allowed). Fitted by
 //   linear GLS (>= 3 points; its misfit is testable from 4).
+//
+// Systematic (model) uncertainty, gated with the statistical one (common practice in numerical
+// extrapolation: vary the fit window and the correction model, and carry the spread):
+// - every extrapolated limit is refitted (a) on the grid minus its smallest n with the same model
+//   and (b) with an alternative correction model: two terms n^-1/2 and n^-1 for the power law (the
+//   leading orders of an expansion in n^-1/2, common practice for random-walk functionals), one
+//   more term n^-3/2 for the log model. se_syst = the largest |alternative - estimate|.
+// - a value is tested by z = (estimate - value)/sqrt(se_stat^2 + se_syst^2), se_stat read off the
+//   side of the statistical interval that faces the value (the profile-likelihood interval is
+//   asymmetric), so the gated test inverts the reported total interval.
+// - when no alternative can be fitted (too few points) the limit is not testable: inconclusive.
+// Why: a single correction term is mis-specified when several terms of similar size exist, and a
+// GLS fit on strongly correlated points then extrapolates with a bias its own interval ignores
+// (the misfit test has little power against it); the spread of reasonable fits measures that bias.
 
 import { blockJackknife } from "../stats/jackknife.js";
-import { fitPowerLawFixed, fitPowerLawProfile, gridIdentifiesRate, linearGls, profileTest, weightMatrix } from "../stats/gls.js";
+import { fitPowerLawFixed, fitPowerLawProfile, gridIdentifiesRate, linearGls, weightMatrix } from "../stats/gls.js";
 import { normalQuantile, twoSidedNormalP } from "../stats/normal.js";
 import type { MomentState } from "../stats/types.js";
 import type { Measure } from "../suite/schema.js";
@@ -81,6 +97,94 @@ function subMatrix(c: Float64Array, d: number, keep: number[]): Float64Array {
   return out;
 }
 
+interface LinearFit {
+  estimate: number;
+  se: number;
+  coef: Float64Array;
+  df: number;
+  pValue: number;
+}
+
+/** GLS of y on the basis functions of n (the first one is the limit's constant 1). */
+function linearFit(n: number[], y: number[], cov: Float64Array, B: number, basis: ((n: number) => number)[]): LinearFit {
+  const m = n.length;
+  const k = basis.length;
+  const design: number[] = [];
+  for (const v of n) for (const f of basis) design.push(f(v));
+  const fit = linearGls(y, design, k, weightMatrix(cov, m, B));
+  return { estimate: fit.coef[0], se: Math.sqrt(fit.coefCov[0]), coef: fit.coef, df: fit.df, pValue: fit.pValue };
+}
+
+type Basis = (n: number) => number;
+const ONE: Basis = () => 1;
+const LOG_OVER_N: Basis = (n) => Math.log(n) / n;
+const INV_N: Basis = (n) => 1 / n;
+const powerOf = (e: number): Basis => (n) => Math.pow(n, -e);
+
+interface DriftExpansion {
+  basis: Basis[];
+  formula: string;
+  why: string;
+  /** The next term, for the alternative model. */
+  extra: Basis;
+  extraLabel: string;
+}
+
+/**
+ * Linear drift expansions of the mean (used instead of a single power law when a drift is implied):
+ * - perimeter, q = 1: E L_n = n perimeter(P) + c log n + C + o(1) (MATH.md, [derived] for one walk,
+ *   assumed for several walks);
+ * - diameter, q = 1 (a linear diameter needs a drift): E D_n = n|a - b| + c log n + C + d n^-1/2
+ *   (assumed: MATH.md gives n|a - b| + O(1); the O(1) overshoot of the farthest pair has corrections
+ *   in n^-1/2, seen in our runs; the log term is allowed, not required);
+ * - area, q = 2 (drifting walks): E A_n = n^2 area(P) + c n^3/2 + a n log n + b n (MATH.md item 8
+ *   and "Finite-n behaviour": n^2 area(P) + O(n^3/2) + O(n log n)).
+ */
+function driftExpansion(s: ScaledSeries): DriftExpansion | null {
+  if (s.quantity !== "meanGrowth") return null;
+  if (s.scaling === 1 && s.measure === "perimeter")
+    return { basis: [ONE, LOG_OVER_N, INV_N], formula: "g + (a ln n + b)/n", why: "E L_n = n perimeter(P) + c log n + C, MATH.md [derived] for one walk, assumed for several", extra: powerOf(1.5), extraLabel: "d n^-3/2" };
+  if (s.scaling === 1 && s.measure === "diameter")
+    return { basis: [ONE, LOG_OVER_N, INV_N, powerOf(1.5)], formula: "g + (a ln n + b)/n + d n^-3/2", why: "E D_n = n|a - b| + O(1) (MATH.md item 5) with log and n^-1/2 corrections allowed: an assumption", extra: powerOf(2), extraLabel: "e n^-2" };
+  if (s.scaling === 2 && s.measure === "area")
+    return { basis: [ONE, powerOf(0.5), LOG_OVER_N, INV_N], formula: "g + c n^-1/2 + (a ln n + b)/n", why: "E A_n = n^2 area(P) + O(n^3/2) + O(n log n) for drifting walks, MATH.md: an expansion assumed to continue with n", extra: powerOf(1.5), extraLabel: "d n^-3/2" };
+  return null;
+}
+const HALF_INTEGER_BASIS = [() => 1, (n: number) => Math.pow(n, -0.5), (n: number) => 1 / n];
+
+/** The largest |alternative - estimate|, or null when no alternative could be fitted. */
+function systematicOf(estimate: number, alternatives: { label: string; estimate: number }[]): number | null {
+  const ok = alternatives.filter((a) => Number.isFinite(a.estimate));
+  return ok.length ? Math.max(...ok.map((a) => Math.abs(a.estimate - estimate))) : null;
+}
+
+/** Tries an alternative fit; a failed fit (singular design, too few points) is simply absent. */
+function tryAlt(label: string, f: () => number): { label: string; estimate: number }[] {
+  try {
+    const v = f();
+    return Number.isFinite(v) ? [{ label, estimate: v }] : [];
+  } catch {
+    return [];
+  }
+}
+
+/** Total interval: each side of the statistical interval widened in quadrature by z * se_syst. */
+function totalInterval(est: number, ci: [number, number], syst: number, z: number): [number, number] {
+  const lo = est - ci[0];
+  const hi = ci[1] - est;
+  return [est - Math.hypot(lo, z * syst), est + Math.hypot(hi, z * syst)];
+}
+
+/** z of a value against an estimate with an asymmetric statistical interval and a systematic. */
+function zAgainst(est: number, ci: [number, number], syst: number, v: number, zc: number): number {
+  const seSide = (v < est ? est - ci[0] : ci[1] - est) / zc;
+  const d = Math.sqrt(seSide * seSide + syst * syst);
+  if (!Number.isFinite(d)) return 0;
+  return d > 0 ? (est - v) / d : est === v ? 0 : Math.sign(est - v) * Infinity;
+}
+
+const fmtAlt = (alts: { label: string; estimate: number }[]) => alts.map((a) => `${a.label}: ${a.estimate.toPrecision(6)}`).join("; ");
+
 function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: Float64Array, B: number, ratios: LimitEstimate["ratios"], droppedNote: string): Extrapolation {
   const G = nK.length;
   const z = normalQuantile(1 - (1 - LEVEL) / 2);
@@ -90,7 +194,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
   const none = (note: string): Extrapolation => {
     const last = G - 1;
     return {
-      limit: { ...base, method: "none", estimate: y[last], standardError: se[last], ci: [y[last] - z * se[last], y[last] + z * se[last]], beta: null, betaInterval: null, misfitPValue: null, sensitivity: [], note },
+      limit: { ...base, method: "none", estimate: y[last], standardError: se[last], ci: [y[last] - z * se[last], y[last] + z * se[last]], beta: null, betaInterval: null, misfitPValue: null, sensitivity: [], systematic: null, alternatives: [], note },
       testable: false,
       test: (v) => {
         const zz = (y[last] - v) / se[last];
@@ -103,31 +207,56 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
   if (B < G + 3) return none(`${B} blocks cannot estimate the ${G}x${G} covariance of the grid (need >= ${G + 3}); ratio at the largest n only, bias unknown`);
 
   const opts = { blocks: B, level: LEVEL };
+  const rest = Array.from({ length: G - 1 }, (_, i) => i + 1);
+  const nR = rest.map((i) => nK[i]);
+  const yR = rest.map((i) => y[i]);
+  const covR = subMatrix(cov, G, rest);
+  const dropLabel = `without n = ${nK[0]}`;
 
-  if (s.quantity === "meanGrowth" && s.measure === "perimeter" && s.scaling === 1) {
-    const design: number[] = [];
-    for (const n of nK) design.push(1, Math.log(n) / n, 1 / n);
-    let fit;
-    try {
-      fit = linearGls(y, design, 3, weightMatrix(cov, G, B));
-    } catch (e) {
-      return none(`log-rate fit impossible (${(e as Error).message}); ratio at the largest n only, bias unknown`);
-    }
-    const g = fit.coef[0];
-    const gse = Math.sqrt(fit.coefCov[0]);
-    const misfit = fit.df > 0 ? fit.pValue : null;
+  /** A fitted limit with its statistical interval, alternatives and systematic. */
+  const finish = (
+    method: "profile" | "log",
+    est: number, seStat: number, ciStat: [number, number], alternatives: { label: string; estimate: number }[],
+    extra: Pick<LimitEstimate, "beta" | "betaInterval" | "misfitPValue">, note: string, modelTestable: boolean,
+  ): Extrapolation => {
+    const syst = systematicOf(est, alternatives);
+    const ci = syst === null ? ciStat : totalInterval(est, ciStat, syst, z);
+    const systNote = syst === null
+      ? "; systematic NOT estimable (no alternative fit possible on this grid)"
+      : `; systematic se_syst = ${syst.toPrecision(3)} = largest shift among alternative fits (${fmtAlt(alternatives)}); interval = statistical (${LEVEL * 100}%: [${ciStat[0].toPrecision(6)}, ${ciStat[1].toPrecision(6)}]) widened in quadrature by ${z.toFixed(2)} se_syst`;
     return {
-      limit: {
-        ...base, method: "log", estimate: g, standardError: gse, ci: [g - z * gse, g + z * gse], beta: null, betaInterval: null, misfitPValue: misfit, sensitivity: [],
-        note: `GLS fit of E X_n/n = g + (a ln n + b)/n (the drift expansion E L_n = n perimeter(P) + c log n + C, MATH.md [derived] for one walk, assumed for several), a = ${fit.coef[1].toPrecision(4)}${fit.df === 0 ? "; 3 points, no misfit test" : ""}`,
-      },
-      testable: fit.df > 0,
+      limit: { ...base, method, estimate: est, standardError: seStat, ci, statisticalCi: ciStat, systematic: syst, alternatives, sensitivity: [], ...extra, note: note + systNote },
+      testable: modelTestable && syst !== null,
       test: (v) => {
-        const zz = (g - v) / gse;
+        const zz = zAgainst(est, ciStat, syst ?? 0, v, z);
         const p = twoSidedNormalP(zz);
         return { statistic: zz, pValue: p, minPValue: p, statisticKind: "z" };
       },
     };
+  };
+
+  const expansion = driftExpansion(s);
+  if (expansion) {
+    const k = expansion.basis.length;
+    if (G < k) return none(`${G} grid points cannot fit the ${k}-term drift expansion ${expansion.formula}; ratio at the largest n only, bias unknown`);
+    let fit: LinearFit;
+    try {
+      fit = linearFit(nK, y, cov, B, expansion.basis);
+    } catch (e) {
+      return none(`drift-expansion fit impossible (${(e as Error).message}); ratio at the largest n only, bias unknown`);
+    }
+    const alternatives = [
+      ...(G - 1 >= k ? tryAlt(`same expansion ${dropLabel}`, () => linearFit(nR, yR, covR, B, expansion.basis).estimate) : []),
+      ...(G >= k + 1 ? tryAlt(`expansion + ${expansion.extraLabel}`, () => linearFit(nK, y, cov, B, [...expansion.basis, expansion.extra]).estimate) : []),
+    ];
+    const g = fit.estimate;
+    const gse = fit.se;
+    return finish(
+      "log", g, gse, [g - z * gse, g + z * gse], alternatives,
+      { beta: null, betaInterval: null, misfitPValue: fit.df > 0 ? fit.pValue : null },
+      `GLS fit of ${what} = ${expansion.formula} (${expansion.why})${fit.df === 0 ? `; ${G} points, no misfit test` : ""}`,
+      fit.df > 0,
+    );
   }
 
   if (gridIdentifiesRate(nK)) {
@@ -137,17 +266,16 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
     } catch (e) {
       return none(`rate fit impossible (${(e as Error).message}); ratio at the largest n only, bias unknown`);
     }
-    return {
-      limit: {
-        ...base, method: "profile", estimate: fit.s2, standardError: fit.s2SE, ci: fit.s2Interval, beta: fit.beta, betaInterval: fit.betaInterval, misfitPValue: fit.pValue, sensitivity: [],
-        note: `GLS fit of ${what} = L + c n^-beta, beta profiled over [0.1, 2] (beta = ${fit.beta.toFixed(3)}, ${LEVEL * 100}% profile interval [${fit.betaInterval![0].toFixed(3)}, ${fit.betaInterval![1].toFixed(3)}]${fit.betaAtBound ? ", at a bound of the range" : ""}); profile-likelihood interval for L`,
-      },
-      testable: true,
-      test: (v) => {
-        const t = profileTest(nK, y, cov, v, opts);
-        return { statistic: t.statistic, pValue: t.pValue, minPValue: t.pValue, statisticKind: "profile-LR" };
-      },
-    };
+    const alternatives = [
+      ...tryAlt(`same model ${dropLabel}`, () => fitPowerLawProfile(nR, yR, covR, opts).s2),
+      ...tryAlt("L + c1 n^-1/2 + c2 n^-1", () => linearFit(nK, y, cov, B, HALF_INTEGER_BASIS).estimate),
+    ];
+    return finish(
+      "profile", fit.s2, fit.s2SE, fit.s2Interval, alternatives,
+      { beta: fit.beta, betaInterval: fit.betaInterval, misfitPValue: fit.pValue },
+      `GLS fit of ${what} = L + c n^-beta, beta profiled over [0.1, 2] (beta = ${fit.beta.toFixed(3)}, ${LEVEL * 100}% profile interval [${fit.betaInterval![0].toFixed(3)}, ${fit.betaInterval![1].toFixed(3)}]${fit.betaAtBound ? ", at a bound of the range" : ""}); profile-likelihood interval for L`,
+      true,
+    );
   }
 
   const rates = Array.from(new Set([s.expectedRate, ...SENSITIVITY_RATES]));
@@ -157,23 +285,30 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
   } catch (e) {
     return none(`fixed-rate fit impossible (${(e as Error).message}); ratio at the largest n only, bias unknown`);
   }
+  // Systematic of each assumed rate: the same fit without the smallest n.
+  const systs = rates.map((b, i) => systematicOf(fits[i].s2, tryAlt(dropLabel, () => fitPowerLawFixed(nR, yR, covR, b, opts).s2)));
   const main = fits[0];
+  const mainSyst = systs[0];
   const reason = G < 5 ? `${G} grid points cannot identify the rate` : "the grid does not identify the rate (needs >= 5 geometrically spaced n over >= 1.5 decades)";
+  const widen = (f: (typeof fits)[number], sy: number | null): [number, number] => (sy === null ? f.s2Interval : totalInterval(f.s2, f.s2Interval, sy, z));
   return {
     limit: {
-      ...base, method: "fixed", estimate: main.s2, standardError: main.s2SE, ci: main.s2Interval, beta: s.expectedRate, betaInterval: null, misfitPValue: main.df > 0 ? main.pValue : null,
+      ...base, method: "fixed", estimate: main.s2, standardError: main.s2SE, ci: widen(main, mainSyst), statisticalCi: main.s2Interval, systematic: mainSyst,
+      alternatives: rates.map((b, i) => ({ label: `beta = ${b}${i === 0 ? " (assumed)" : ""}`, estimate: fits[i].s2 })),
+      beta: s.expectedRate, betaInterval: null, misfitPValue: main.df > 0 ? main.pValue : null,
       sensitivity: SENSITIVITY_RATES.map((b) => {
-        const f = fits[rates.indexOf(b)];
-        return { beta: b, estimate: f.s2, ci: f.s2Interval };
+        const i = rates.indexOf(b);
+        return { beta: b, estimate: fits[i].s2, ci: widen(fits[i], systs[i]) };
       }),
       note: `GLS fit of ${what} = L + c n^-beta with beta = ${s.expectedRate} ASSUMED (${reason}); ` +
-        `L = ${SENSITIVITY_RATES.map((b) => `${fits[rates.indexOf(b)].s2.toPrecision(6)} (beta ${b})`).join(", ")}`,
+        `L = ${SENSITIVITY_RATES.map((b) => `${fits[rates.indexOf(b)].s2.toPrecision(6)} (beta ${b})`).join(", ")}` +
+        (mainSyst === null ? "; systematic NOT estimable (too few points to refit without the smallest n)" : `; systematic per rate = |refit ${dropLabel} - fit| (assumed rate: ${mainSyst.toPrecision(3)}), added in quadrature`),
     },
-    testable: true,
+    testable: systs.every((x) => x !== null),
     test: (v) => {
-      const ps = fits.map((f) => twoSidedNormalP((f.s2 - v) / f.s2SE));
-      const zz = (main.s2 - v) / main.s2SE;
-      return { statistic: zz, pValue: Math.max(...ps), minPValue: Math.min(...ps), statisticKind: "z" };
+      const zs = fits.map((f, i) => zAgainst(f.s2, f.s2Interval, systs[i] ?? 0, v, z));
+      const ps = zs.map(twoSidedNormalP);
+      return { statistic: zs[0], pValue: Math.max(...ps), minPValue: Math.min(...ps), statisticKind: "z" };
     },
   };
 }

@@ -53,6 +53,15 @@ export interface LimitEstimate {
   misfitPValue: number | null;
   /** Estimates under other assumed rates (fixed method only). */
   sensitivity: { beta: number; estimate: number; ci: [number, number] }[];
+  /** Statistical interval alone (the profile or GLS interval before the systematic is added); `ci` is the total. */
+  statisticalCi?: [number, number] | null;
+  /**
+   * Model (systematic) uncertainty of the extrapolated limit: the largest |alternative - estimate|
+   * over the alternative fits below; null when no alternative could be fitted (then nothing is gated).
+   */
+  systematic?: number | null;
+  /** The alternative fits behind `systematic` (refit without the smallest n, alternative correction model). */
+  alternatives?: { label: string; estimate: number }[];
   /** Ratio and its jackknife SE at each grid point. */
   ratios: { n: number; value: number; standardError: number }[];
   note: string;
