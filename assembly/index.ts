@@ -18,4 +18,4 @@ export {
   benchSurvival,
   benchResetStats,
 } from "./simulate";
-export { fillNormals, fillNormalsPolar, nextSubstream, zigTable } from "./rng";
+export { fillNormals, fillNormalsPolar, nextSubstream, zigTable, benchUniforms } from "./rng";

@@ -13,6 +13,8 @@
  *       -> "seconds per call" (mean over REPS calls of PATHS paths each, after one warm-up call)
  *   walkhull-native ZIGFILE normals COUNT REPS
  *       -> seconds per fill of COUNT ziggurat normals
+ *   walkhull-native ZIGFILE uniforms COUNT REPS
+ *       -> seconds per COUNT uniforms on [0, 1) (summed)
  * GRID is a comma-separated increasing list of step counts. ZIGFILE holds 514 doubles (X then F).
  */
 #include <math.h>
@@ -404,6 +406,14 @@ int main(int argc, char **argv) {
     for (int r = 0; r < reps; r++) fillNormals(buf, count);
     double sink = buf[count - 1];
     printf("%.9g %g\n", (now() - t0) / reps, sink);
+    return 0;
+  }
+  if (strcmp(mode, "uniforms") == 0) {
+    int count = atoi(argv[3]), reps = atoi(argv[4]);
+    seedBlockStream(1, 0); nextSubstream();
+    double sum = 0.0, t0 = now();
+    for (int r = 0; r < reps; r++) for (int k = 0; k < count; k++) sum += uniform01();
+    printf("%.9g %g\n", (now() - t0) / reps, sum);
     return 0;
   }
   if (argc < 8) { fprintf(stderr, "usage: see bench/native/walkhull.c\n"); return 2; }

@@ -1,0 +1,46 @@
+// The bench in smoke mode: it runs, prints its tables and writes valid JSON. No timing assertions.
+import { spawnSync } from "node:child_process";
+import { mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { describe, expect, it } from "vitest";
+
+const ROOT = new URL("../../", import.meta.url).pathname;
+const hasGcc = spawnSync("gcc", ["--version"]).status === 0;
+
+describe("bench --smoke", () => {
+  it("prints the tables and writes valid JSON; the native build reproduces WASM bit for bit", () => {
+    const dir = mkdtempSync(join(tmpdir(), "walkhull-bench-test-"));
+    try {
+      const file = join(dir, "bench.json");
+      const r = spawnSync(process.execPath, ["--import", "tsx", "bench/pipeline.ts", "--smoke", "--json", file], { cwd: ROOT, encoding: "utf8" });
+      expect(r.stderr).toBe("");
+      expect(r.status).toBe(0);
+      for (const heading of ["| walks | n | WASM | TS twin | native C | numpy+scipy |", "WASM stages", "Draws, ns per draw", "Parallel:", "Targets"]) {
+        expect(r.stdout).toContain(heading);
+      }
+      const j = JSON.parse(readFileSync(file, "utf8"));
+      expect(j.env.smoke).toBe(true);
+      expect(j.pipeline).toHaveLength(4); // k in {1, 2} x n in {100, 1000}
+      for (const row of j.pipeline) {
+        expect(row.wasm).toBeGreaterThan(0);
+        expect(row.twin).toBeGreaterThan(0);
+        expect(row.survival).toBeGreaterThan(0);
+        expect(row.survival).toBeLessThanOrEqual(1);
+      }
+      expect(j.stages).toHaveLength(4);
+      expect(j.draws.map((d: { what: string }) => d.what)).toContain("step law: student (dof 5)");
+      expect(j.parallel.runs.map((p: { workers: number }) => p.workers)).toEqual([1, 2]);
+      expect(j.targets.length).toBeGreaterThanOrEqual(6);
+      if (hasGcc) {
+        expect(j.nativeCheck.compared).toBeGreaterThan(0);
+        expect(j.nativeCheck.identical).toBe(true);
+        expect(j.pipeline.every((row: { native: number | null }) => row.native !== null && row.native > 0)).toBe(true);
+      } else {
+        expect(j.nativeNote).toMatch(/gcc/);
+      }
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 180_000);
+});
