@@ -31,8 +31,8 @@ const { values: flags } = parseArgs({
 });
 const smoke = Boolean(flags.smoke);
 const runs = Number(flags.runs ?? (smoke ? 4 : 200));
-const paths = Number(flags.paths ?? (smoke ? 2000 : 20000));
-const powerRuns = Number(flags["power-runs"] ?? (smoke ? 2 : 50));
+const paths = Number(flags.paths ?? (smoke ? 2000 : 10000));
+const powerRuns = Number(flags["power-runs"] ?? (smoke ? 2 : 30));
 const workers = Number(flags.workers ?? 2);
 
 const base: Suite = {
@@ -82,7 +82,8 @@ async function main() {
       measure: ["perimeter"],
       claims: [{ measure: "perimeter", varianceLimit: TRUE_SIGMA2 * 1.02, label: "planted +2% error" }],
     };
-    const nRuns = budget === paths ? powerRuns : Math.max(2, Math.round(powerRuns / 2));
+    // Fewer runs at the larger budgets (each costs 4x more); the Wilson interval says how few.
+    const nRuns = budget === paths ? powerRuns : budget === paths * 4 ? Math.max(2, Math.round(powerRuns / 2)) : Math.max(2, Math.round(powerRuns / 4));
     let detected = 0;
     for (let r = 0; r < nRuns; r++) {
       const v = await once(claimSuite, 2_000_003 + r);
@@ -116,6 +117,8 @@ async function main() {
     ...uniformity.map((u) => `  ${u.id.padEnd(44)} ${String(u.count).padStart(4)} p-values, KS p = ${u.ksPValue.toFixed(3)}`),
     "detection of a claimed sigma^2 2% too high (4.08 instead of 4):",
     ...power.map((p) => `  ${String(p.paths).padStart(8)} paths: ${p.detected}/${p.runs} = ${pct(p.rate)}, 95% Wilson [${pct(p.interval[0])}, ${pct(p.interval[1])}]`),
+    `smallest budget tried with >= 90% detection: ${power.find((p) => p.rate >= 0.9)?.paths ?? "none of those tried"} paths`,
+    "(limit-law checks are conservative by design: their gated p-value is 1 unless the distance bound nears the tolerance, so a uniformity KS p near 0 is expected there)",
     `(${result.seconds.toFixed(0)} s)`,
   ];
   process.stdout.write(lines.join("\n") + "\n");
