@@ -107,8 +107,7 @@ export function setFrame(cnt: f64, sx: f64, sy: f64, sxx: f64, sxy: f64, syy: f6
 }
 
 /**
- * Appends src[from..to) (to > from) to the candidates and finds, in the current frame, the first
- * point of largest u = x', u + v, v, -(u - v), -u, -(u + v), -v, u - v (v = y'), and max |x|, |y|.
+ * Finds, for src[from..to) (to > from), in the current frame, the first point of largest u = x', u + v, v, -(u - v), -u, -(u + v), -v, u - v (v = y'), and max |x|, |y|.
  * Branch-free updates (a drifting walk sets a new maximum almost every step).
  */
 function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
@@ -119,10 +118,6 @@ function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
   let u4 = u0, s5 = s1, v6 = v2, d3 = d7;
   let i0 = from, i1 = from, i2 = from, i3 = from, i4 = from, i5 = from, i6 = from, i7 = from;
   let mxa = Math.abs(x), mya = Math.abs(y);
-  let w = candCount;
-  store<f64>(CX + (<usize>w << 3), x);
-  store<f64>(CY + (<usize>w << 3), y);
-  w++;
   if (ASC_FEATURE_SIMD) {
     // Lanes: P = [u, v], Q = [u + v, u - v]; the same IEEE operations and strict comparisons as
     // the scalar loop below (so the same extreme points), with indices carried as f64.
@@ -139,9 +134,6 @@ function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
     for (let i = from + 1; i < to; i++) {
       x = ldx(srcX, i);
       y = ldx(srcY, i);
-      store<f64>(CX + (<usize>w << 3), x);
-      store<f64>(CY + (<usize>w << 3), y);
-      w++;
       const X = f64x2.splat(x);
       const Y = f64x2.splat(y);
       const P = f64x2.add(f64x2.mul(X, AB), f64x2.mul(Y, ZC));
@@ -166,9 +158,6 @@ function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
     for (let i = from + 1; i < to; i++) {
       x = ldx(srcX, i);
       y = ldx(srcY, i);
-      store<f64>(CX + (<usize>w << 3), x);
-      store<f64>(CY + (<usize>w << 3), y);
-      w++;
       const u = a * x, v = b * x + c * y;
       const s = u + v, d = u - v;
       let t = u > u0; u0 = select<f64>(u, u0, t); i0 = select<i32>(i, i0, t);
@@ -194,7 +183,6 @@ function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
   ex6 = ldx(srcX, i6); ey6 = ldx(srcY, i6);
   ex7 = ldx(srcX, i7); ey7 = ldx(srcY, i7);
   absX = mxa; absY = mya;
-  candCount = w;
 }
 
 let polyN: i32 = 0;
@@ -215,18 +203,26 @@ let polyY: usize = heap.alloc(8 << 3);
  * vertices), so dropping it cannot change the hull, whatever the rounding in picking the
  * extremes. "Strictly left" is certified: with E = b - a, the test E_x p_y - E_y p_x > c + eps,
  * c = E_x a_y - E_y a_x, eps = 4e-15 (|E_x| max|y| + |E_y| max|x|), bounds every rounding error
- * (about 7 u (|E_x| max|y| + |E_y| max|x|), u = 2^-53) with a margin of 5. Returns the new count.
+ * (about 7 u (|E_x| max|y| + |E_y| max|x|), u = 2^-53) with a margin of 5. The points of
+ * src[from..to) that survive are appended to the candidates (read once from the walk, never
+ * copied first); groups below FILTER_MIN or with a degenerate polygon are appended whole.
+ * Returns the new candidate count.
  */
-export function filterCandidates(start: i32): i32 {
-  const count = candCount;
-  if (count - start < FILTER_MIN) return count;
+export function filterGroup(srcX: usize, srcY: usize, from: i32, to: i32): i32 {
+  if (to - from < FILTER_MIN) {
+    append(srcX, srcY, from, to);
+    return candCount;
+  }
   polyN = 0;
   polyPush(ex0, ey0); polyPush(ex1, ey1); polyPush(ex2, ey2); polyPush(ex3, ey3);
   polyPush(ex4, ey4); polyPush(ex5, ey5); polyPush(ex6, ey6); polyPush(ex7, ey7);
   while (polyN > 1 && load<f64>(polyX + (<usize>(polyN - 1) << 3)) == load<f64>(polyX) &&
     load<f64>(polyY + (<usize>(polyN - 1) << 3)) == load<f64>(polyY)) polyN--;
   const m = polyN;
-  if (m < 3) return count;
+  if (m < 3) {
+    append(srcX, srcY, from, to);
+    return candCount;
+  }
   for (let e = 0; e < 8; e++) {
     // Edges beyond m repeat edge 0: the same constraint twice, so the test stays unrolled.
     const e0 = e < m ? e : 0;
@@ -248,8 +244,8 @@ export function filterCandidates(start: i32): i32 {
   const a5 = load<f64>(EDGES + 120), b5 = load<f64>(EDGES + 128), c5 = load<f64>(EDGES + 136);
   const a6 = load<f64>(EDGES + 144), b6 = load<f64>(EDGES + 152), c6 = load<f64>(EDGES + 160);
   const a7 = load<f64>(EDGES + 168), b7 = load<f64>(EDGES + 176), c7 = load<f64>(EDGES + 184);
-  let w = start;
-  let i = start;
+  let w = candCount;
+  let i = from;
   if (ASC_FEATURE_SIMD) {
     // Two points per step (f64x2): the same IEEE products, differences and comparisons as the
     // scalar test, so the same points survive, in the same order.
@@ -261,9 +257,9 @@ export function filterCandidates(start: i32): i32 {
     const A5 = f64x2.splat(a5), B5 = f64x2.splat(b5), C5 = f64x2.splat(c5);
     const A6 = f64x2.splat(a6), B6 = f64x2.splat(b6), C6 = f64x2.splat(c6);
     const A7 = f64x2.splat(a7), B7 = f64x2.splat(b7), C7 = f64x2.splat(c7);
-    for (; i + 1 < count; i += 2) {
-      const xv = v128.load(CX + (<usize>i << 3));
-      const yv = v128.load(CY + (<usize>i << 3));
+    for (; i + 1 < to; i += 2) {
+      const xv = v128.load(srcX + (<usize>i << 3));
+      const yv = v128.load(srcY + (<usize>i << 3));
       let m = f64x2.gt(f64x2.sub(f64x2.mul(A0, yv), f64x2.mul(B0, xv)), C0);
       m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A1, yv), f64x2.mul(B1, xv)), C1));
       m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A2, yv), f64x2.mul(B2, xv)), C2));
@@ -285,9 +281,9 @@ export function filterCandidates(start: i32): i32 {
       }
     }
   }
-  for (; i < count; i++) {
-    const x = load<f64>(CX + (<usize>i << 3));
-    const y = load<f64>(CY + (<usize>i << 3));
+  for (; i < to; i++) {
+    const x = load<f64>(srcX + (<usize>i << 3));
+    const y = load<f64>(srcY + (<usize>i << 3));
     const inside =
       a0 * y - b0 * x > c0 && a1 * y - b1 * x > c1 && a2 * y - b2 * x > c2 && a3 * y - b3 * x > c3 &&
       a4 * y - b4 * x > c4 && a5 * y - b5 * x > c5 && a6 * y - b6 * x > c6 && a7 * y - b7 * x > c7;
@@ -390,10 +386,9 @@ export function runPath(out: usize): void {
       const o = SEG + (<usize>(5 * (j * G + g)) << 3);
       setFrame(<f64>(1 + hi), load<f64>(o), load<f64>(o + 8), load<f64>(o + 16), load<f64>(o + 24), load<f64>(o + 32));
       const base = j * stride;
-      const start = candCount;
       const first = base + prev + 1;
       gatherGroup(PX, PY, first, base + hi + 1);
-      filterCandidates(start);
+      filterGroup(PX, PY, first, base + hi + 1);
     }
     const h = chainCandidates();
     const r = out + (<usize>(4 * g) << 3);
@@ -439,7 +434,8 @@ export function hullOfPoints(xs: usize, ys: usize, count: i32, useFilter: bool):
   hullCount = 0;
   if (count == 0) return 0;
   gatherGroup(xs, ys, 0, count);
-  if (useFilter) filterCandidates(0);
+  if (useFilter) filterGroup(xs, ys, 0, count);
+  else append(xs, ys, 0, count);
   return chainCandidates();
 }
 
@@ -493,7 +489,7 @@ export function benchPaths(count: i32, level: i32): f64 {
         const base = j * stride;
         const start = candCount;
         gatherGroup(PX, PY, base + prev + 1, base + hi + 1);
-        filterCandidates(start);
+        filterGroup(PX, PY, base + prev + 1, base + hi + 1);
         statGathered += <f64>(hi - prev);
         statKept += <f64>(candCount - start);
       }

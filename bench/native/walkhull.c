@@ -260,11 +260,8 @@ static void gatherGroup(const double *srcX, const double *srcY, int from, int to
   double u4 = u0, s5 = s1v, v6 = v2, d3 = d7;
   int i0 = from, i1 = from, i2 = from, i3 = from, i4 = from, i5 = from, i6 = from, i7 = from;
   double mxa = fabs(x), mya = fabs(y);
-  int w = candCount;
-  CX[w] = x; CY[w] = y; w++;
   for (int i = from + 1; i < to; i++) {
     x = srcX[i]; y = srcY[i];
-    CX[w] = x; CY[w] = y; w++;
     double u = a * x, v = b * x + c * y, s = u + v, d = u - v;
     if (u > u0) { u0 = u; i0 = i; }
     if (u < u4) { u4 = u; i4 = i; }
@@ -281,12 +278,13 @@ static void gatherGroup(const double *srcX, const double *srcY, int from, int to
   int idx[8] = { i0, i1, i2, i3, i4, i5, i6, i7 };
   for (int e = 0; e < 8; e++) { exs[e] = srcX[idx[e]]; eys[e] = srcY[idx[e]]; }
   absX = mxa; absY = mya;
-  candCount = w;
 }
 
-static int filterCandidates(int start) {
-  int count = candCount;
-  if (count - start < FILTER_MIN) return count;
+static void append(const double *srcX, const double *srcY, int from, int to);
+
+/* Appends the points of src[from..to) not certified strictly inside the octagon to the candidates. */
+static void filterGroup(const double *srcX, const double *srcY, int from, int to) {
+  if (to - from < FILTER_MIN) { append(srcX, srcY, from, to); return; }
   double px[8], py[8];
   int m = 0;
   for (int e = 0; e < 8; e++) {
@@ -294,7 +292,7 @@ static int filterCandidates(int start) {
     px[m] = exs[e]; py[m] = eys[e]; m++;
   }
   while (m > 1 && px[m - 1] == px[0] && py[m - 1] == py[0]) m--;
-  if (m < 3) return count;
+  if (m < 3) { append(srcX, srcY, from, to); return; }
   double A[8], B[8], C[8];
   for (int e = 0; e < 8; e++) {
     int e0 = e < m ? e : 0, f = e0 + 1 == m ? 0 : e0 + 1;
@@ -303,16 +301,15 @@ static int filterCandidates(int start) {
     double eps = 4e-15 * (fabs(exx) * absY + fabs(eyy) * absX);
     A[e] = exx; B[e] = eyy; C[e] = c + eps;
   }
-  int w = start;
-  for (int i = start; i < count; i++) {
-    double x = CX[i], y = CY[i];
+  int w = candCount;
+  for (int i = from; i < to; i++) {
+    double x = srcX[i], y = srcY[i];
     int inside = A[0] * y - B[0] * x > C[0] && A[1] * y - B[1] * x > C[1] && A[2] * y - B[2] * x > C[2] &&
       A[3] * y - B[3] * x > C[3] && A[4] * y - B[4] * x > C[4] && A[5] * y - B[5] * x > C[5] &&
       A[6] * y - B[6] * x > C[6] && A[7] * y - B[7] * x > C[7];
     if (!inside) { CX[w] = x; CY[w] = y; w++; }
   }
   candCount = w;
-  return w;
 }
 
 static void append(const double *srcX, const double *srcY, int from, int to) {
@@ -356,9 +353,9 @@ static void runPath(double *out) {
     for (int j = 0; j < K; j++) {
       double *o = SEG + 5 * (j * G + g);
       setFrame((double)(1 + hi), o[0], o[1], o[2], o[3], o[4]);
-      int base = j * stride, start = candCount;
+      int base = j * stride;
       gatherGroup(PX, PY, base + prev + 1, base + hi + 1);
-      filterCandidates(start);
+      filterGroup(PX, PY, base + prev + 1, base + hi + 1);
     }
     sortPoints(CX, CY, 0, candCount - 1);
     int h = hullCount = monotoneChain(CX, CY, candCount, HX, HY);
