@@ -368,6 +368,26 @@ function generateWalks(): void {
 }
 
 /**
+ * With several walks, the survivors of all walks are filtered once more, in place, against the
+ * octagon of their joint extremes in the frame of the joint cloud (sum of the walks' moments):
+ * a point of one walk can be outside its own walk's octagon yet deep inside the hull of all walks.
+ * Conservative like every filter pass, so the hull is unchanged.
+ */
+function filterJoint(g: i32, hi: i32): void {
+  let sx = 0.0, sy = 0.0, sxx = 0.0, sxy = 0.0, syy = 0.0;
+  for (let j = 0; j < K; j++) {
+    const o = SEG + (<usize>(5 * (j * G + g)) << 3);
+    sx += load<f64>(o); sy += load<f64>(o + 8);
+    sxx += load<f64>(o + 16); sxy += load<f64>(o + 24); syy += load<f64>(o + 32);
+  }
+  setFrame(<f64>(K * (1 + hi)), sx, sy, sxx, sxy, syy);
+  const count = candCount;
+  gatherGroup(CX, CY, 0, count);
+  candCount = 0;
+  filterGroup(CX, CY, 0, count); // writes at w <= i: in place
+}
+
+/**
  * Simulates one path; writes G * 4 values (perimeter, diameter, area, vertices per grid n).
  * Each walk's new points are filtered against the polygon of their own extremes, in the frame
  * of that walk's own cloud (so k needles pointing different ways are each filtered well): a point
@@ -390,6 +410,7 @@ export function runPath(out: usize): void {
       gatherGroup(PX, PY, first, base + hi + 1);
       filterGroup(PX, PY, first, base + hi + 1);
     }
+    if (K > 1) filterJoint(g, hi);
     const h = chainCandidates();
     const r = out + (<usize>(4 * g) << 3);
     store<f64>(r, perimeter(HX, HY, h));
@@ -487,12 +508,12 @@ export function benchPaths(count: i32, level: i32): f64 {
         const o = SEG + (<usize>(5 * (j * G + g)) << 3);
         setFrame(<f64>(1 + hi), load<f64>(o), load<f64>(o + 8), load<f64>(o + 16), load<f64>(o + 24), load<f64>(o + 32));
         const base = j * stride;
-        const start = candCount;
         gatherGroup(PX, PY, base + prev + 1, base + hi + 1);
         filterGroup(PX, PY, base + prev + 1, base + hi + 1);
         statGathered += <f64>(hi - prev);
-        statKept += <f64>(candCount - start);
       }
+      if (K > 1) filterJoint(g, hi);
+      statKept += <f64>candCount;
       if (level == 2) {
         check += <f64>candCount;
         hullCount = 0;
@@ -512,7 +533,10 @@ export function benchPaths(count: i32, level: i32): f64 {
   return check;
 }
 
-/** Survival fraction of the point filter (kept / new points) since the last benchResetStats. */
+/**
+ * Survival fraction of the point filters since the last benchResetStats: candidates left for the
+ * sort and chain (after the per-walk and, for k > 1, the joint filter) per new point.
+ */
 export function benchSurvival(): f64 {
   return statGathered > 0 ? statKept / statGathered : 0.0;
 }

@@ -318,6 +318,20 @@ static void append(const double *srcX, const double *srcY, int from, int to) {
   candCount = w;
 }
 
+/* Second pass for k > 1: candidates vs the octagon of their joint extremes, joint frame, in place. */
+static void filterJoint(int g, int hi) {
+  double sx = 0, sy = 0, sxx = 0, sxy = 0, syy = 0;
+  for (int j = 0; j < K; j++) {
+    const double *o = SEG + 5 * (j * G + g);
+    sx += o[0]; sy += o[1]; sxx += o[2]; sxy += o[3]; syy += o[4];
+  }
+  setFrame((double)(K * (1 + hi)), sx, sy, sxx, sxy, syy);
+  int count = candCount;
+  gatherGroup(CX, CY, 0, count);
+  candCount = 0;
+  filterGroup(CX, CY, 0, count);
+}
+
 static void runPath(double *out) {
   int stride = N + 1;
   memset(SEG, 0, sizeof(double) * 5 * G * K);
@@ -357,6 +371,7 @@ static void runPath(double *out) {
       gatherGroup(PX, PY, base + prev + 1, base + hi + 1);
       filterGroup(PX, PY, base + prev + 1, base + hi + 1);
     }
+    if (K > 1) filterJoint(g, hi);
     sortPoints(CX, CY, 0, candCount - 1);
     int h = hullCount = monotoneChain(CX, CY, candCount, HX, HY);
     double *r = out + 4 * g;
