@@ -36,6 +36,8 @@ import type { LimitEstimate } from "./types.js";
 
 export const LEVEL = 0.95;
 const SENSITIVITY_RATES = [0.25, 0.5, 1];
+/** Misfit p-value below which a drift expansion gives way to the free-rate power law. */
+const EXPANSION_MISFIT = 0.01;
 
 export interface ScaledSeries {
   measure: Measure;
@@ -236,6 +238,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
   };
 
   const expansion = driftExpansion(s);
+  let fallback = "";
   if (expansion) {
     const k = expansion.basis.length;
     if (G < k) return none(`${G} grid points cannot fit the ${k}-term drift expansion ${expansion.formula}; ratio at the largest n only, bias unknown`);
@@ -251,7 +254,11 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
     ];
     const g = fit.estimate;
     const gse = fit.se;
-    return finish(
+    // A misfitting expansion (e.g. a sqrt(n) term from tied or repeated vertices of P, outside the
+    // expansion's hypotheses) falls back to the free-rate power law when the grid identifies a rate.
+    if (fit.df > 0 && fit.pValue < EXPANSION_MISFIT && gridIdentifiesRate(nK))
+      fallback = `the drift expansion ${expansion.formula} misfits the grid (chi-square p = ${fit.pValue.toExponential(1)} < ${EXPANSION_MISFIT}): fell back to the power law; `;
+    else return finish(
       "log", g, gse, [g - z * gse, g + z * gse], alternatives,
       { beta: null, betaInterval: null, misfitPValue: fit.df > 0 ? fit.pValue : null },
       `GLS fit of ${what} = ${expansion.formula} (${expansion.why})${fit.df === 0 ? `; ${G} points, no misfit test` : ""}`,
@@ -273,7 +280,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
     return finish(
       "profile", fit.s2, fit.s2SE, fit.s2Interval, alternatives,
       { beta: fit.beta, betaInterval: fit.betaInterval, misfitPValue: fit.pValue },
-      `GLS fit of ${what} = L + c n^-beta, beta profiled over [0.1, 2] (beta = ${fit.beta.toFixed(3)}, ${LEVEL * 100}% profile interval [${fit.betaInterval![0].toFixed(3)}, ${fit.betaInterval![1].toFixed(3)}]${fit.betaAtBound ? ", at a bound of the range" : ""}); profile-likelihood interval for L`,
+      `${fallback}GLS fit of ${what} = L + c n^-beta, beta profiled over [0.1, 2] (beta = ${fit.beta.toFixed(3)}, ${LEVEL * 100}% profile interval [${fit.betaInterval![0].toFixed(3)}, ${fit.betaInterval![1].toFixed(3)}]${fit.betaAtBound ? ", at a bound of the range" : ""}); profile-likelihood interval for L`,
       true,
     );
   }

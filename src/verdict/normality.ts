@@ -28,6 +28,12 @@ export interface NormalityEvidence {
   kurtosisZ: number;
   /** One-sided test that |skewness| grows from the smallest to the largest n (null with one n). */
   skewGrowth: { z: number; pValue: number } | null;
+  /**
+   * One-sided test that |skewness| at the largest n exceeds |g1(n_min)| sqrt(n_min/n_max), the
+   * n^-1/2 decay a normal limit implies (first Edgeworth term; common practice): a skewness that
+   * persists is evidence of a non-normal LIMIT even when the finite-n distance is below tolerance.
+   */
+  skewPersistence: { z: number; pValue: number } | null;
   /** KS distance vs n, or the reason it is not given. */
   ksTrend: string;
 }
@@ -49,6 +55,7 @@ export function normalityEvidence(n: number[], samples: ArrayLike<number>[], blo
   const anderson = distance.size >= 8 ? andersonDarlingNormal(last) : { statistic: NaN, modified: NaN, pValue: NaN };
   const merged = summarize(mergeAll(blocks.map((b) => b[G - 1])));
   let skewGrowth: NormalityEvidence["skewGrowth"] = null;
+  let skewPersistence: NormalityEvidence["skewPersistence"] = null;
   if (G >= 2 && blocks.length >= 2) {
     const jk = blockJackknife(blocks.map((b) => [b[0], b[G - 1]]), (m) => [skewness(m[0]), skewness(m[1])]);
     const [g0, g1] = jk.estimate;
@@ -59,6 +66,11 @@ export function normalityEvidence(n: number[], samples: ArrayLike<number>[], blo
     const v = c[3] + c[0] - 2 * s1 * s0 * c[1];
     const z = v > 0 ? diff / Math.sqrt(v) : 0;
     skewGrowth = { z, pValue: normalSf(z) };
+    const r = Math.sqrt(n[0] / n[G - 1]);
+    const dp = Math.abs(g1) - r * Math.abs(g0);
+    const vp = c[3] + r * r * c[0] - 2 * r * s1 * s0 * c[1];
+    const zp = vp > 0 ? dp / Math.sqrt(vp) : 0;
+    skewPersistence = { z: zp, pValue: normalSf(zp) };
   }
   const points: { n: number; d: number }[] = [];
   const below: number[] = [];
@@ -100,6 +112,7 @@ export function normalityEvidence(n: number[], samples: ArrayLike<number>[], blo
     skewnessZ: skewnessZ(merged),
     kurtosisZ: excessKurtosisZ(merged),
     skewGrowth,
+    skewPersistence,
     ksTrend,
   };
 }
