@@ -1,8 +1,10 @@
 // One block of paths: k walks from the origin, hulls at every n of the grid along one path.
 // Per grid segment (n_{g-1}, n_g]: candidates = previous hull vertices + the new points of every
 // walk; a conservative point filter drops new points strictly inside the polygon of 8 extreme
-// points of their walk's segment; the survivors are sorted and chained (hull(prefix n_g) = hull(hull(prefix n_{g-1}) +
-// new points)). All buffers are allocated once in setup and reused for every path.
+// points of their walk's segment; a second pass filters the survivors again (k > 1: against the
+// octagon of all candidates in the joint frame; k = 1: in the walk's frame rotated by pi/8); the
+// survivors are sorted and chained (hull(prefix n_g) = hull(hull(prefix n_{g-1}) + new points)).
+// All buffers are allocated once in setup and reused for every path.
 
 import { fillNormals, nextSubstream, seedBlockStream } from "./rng";
 import { drawStepsInto, LAW_GAUSSIAN } from "./laws";
@@ -74,7 +76,7 @@ export function seedBlock(seed: u64, block: u64): void {
 }
 
 // ---- Extremes in 8 directions of a normalised frame x' = fa x, y' = fb x + fc y.
-let fa: f64 = 1, fb: f64 = 0, fc: f64 = 1;
+let fa: f64 = 1, fb: f64 = 0, fc: f64 = 1, fd: f64 = 0; // x' = fa x + fd y (fd = 0 but in rotated frames)
 let ex0: f64 = 0, ey0: f64 = 0, ex1: f64 = 0, ey1: f64 = 0, ex2: f64 = 0, ey2: f64 = 0, ex3: f64 = 0, ey3: f64 = 0;
 let ex4: f64 = 0, ey4: f64 = 0, ex5: f64 = 0, ey5: f64 = 0, ex6: f64 = 0, ey6: f64 = 0, ex7: f64 = 0, ey7: f64 = 0;
 let absX: f64 = 0, absY: f64 = 0;
@@ -86,7 +88,7 @@ let candCount: i32 = 0;
  * Falls back to the identity for (near) collinear clouds. Any frame keeps the filter correct.
  */
 export function setFrame(cnt: f64, sx: f64, sy: f64, sxx: f64, sxy: f64, syy: f64): void {
-  fa = 1; fb = 0; fc = 1;
+  fa = 1; fb = 0; fc = 1; fd = 0;
   const mx = sx / cnt, my = sy / cnt;
   const cxx = sxx / cnt - mx * mx;
   const cxy = sxy / cnt - mx * my;
@@ -111,9 +113,9 @@ export function setFrame(cnt: f64, sx: f64, sy: f64, sxx: f64, sxy: f64, syy: f6
  * Branch-free updates (a drifting walk sets a new maximum almost every step).
  */
 function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
-  const a = fa, b = fb, c = fc;
+  const a = fa, b = fb, c = fc, dd = fd;
   let x = ldx(srcX, from), y = ldx(srcY, from);
-  let u0 = a * x, v2 = b * x + c * y;
+  let u0 = a * x + dd * y, v2 = b * x + c * y;
   let s1 = u0 + v2, d7 = u0 - v2;
   let u4 = u0, s5 = s1, v6 = v2, d3 = d7;
   let i0 = from, i1 = from, i2 = from, i3 = from, i4 = from, i5 = from, i6 = from, i7 = from;
@@ -122,7 +124,7 @@ function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
     // Lanes: P = [u, v], Q = [u + v, u - v]; the same IEEE operations and strict comparisons as
     // the scalar loop below (so the same extreme points), with indices carried as f64.
     const AB = f64x2.replace_lane(f64x2.splat(a), 1, b);
-    const ZC = f64x2.replace_lane(f64x2.splat(0.0), 1, c);
+    const ZC = f64x2.replace_lane(f64x2.splat(dd), 1, c);
     const PN = f64x2.replace_lane(f64x2.splat(1.0), 1, -1.0);
     let pMax = f64x2.replace_lane(f64x2.splat(u0), 1, v2);
     let pMin = pMax;
@@ -158,7 +160,7 @@ function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
     for (let i = from + 1; i < to; i++) {
       x = ldx(srcX, i);
       y = ldx(srcY, i);
-      const u = a * x, v = b * x + c * y;
+      const u = a * x + dd * y, v = b * x + c * y;
       const s = u + v, d = u - v;
       let t = u > u0; u0 = select<f64>(u, u0, t); i0 = select<i32>(i, i0, t);
       t = u < u4; u4 = select<f64>(u, u4, t); i4 = select<i32>(i, i4, t);
@@ -387,6 +389,28 @@ function filterJoint(g: i32, hi: i32): void {
   filterGroup(CX, CY, 0, count); // writes at w <= i: in place
 }
 
+// cos and sin of pi/8: the second pass's octagon directions bisect the first's.
+const COS_PI8: f64 = 0.9238795325112867;
+const SIN_PI8: f64 = 0.3826834323650898;
+
+/**
+ * One walk: its survivors are filtered once more, in place, against the octagon of their extremes
+ * in the walk's frame rotated by pi/8 (directions between the first octagon's): conservative, so
+ * the hull is unchanged.
+ */
+function filterRotated(): void {
+  const count = candCount;
+  if (count < FILTER_MIN) return;
+  const a = fa, b = fb, c = fc;
+  fa = COS_PI8 * a + SIN_PI8 * b;
+  fd = SIN_PI8 * c;
+  fb = COS_PI8 * b - SIN_PI8 * a;
+  fc = COS_PI8 * c;
+  gatherGroup(CX, CY, 0, count);
+  candCount = 0;
+  filterGroup(CX, CY, 0, count);
+}
+
 /**
  * Simulates one path; writes G * 4 values (perimeter, diameter, area, vertices per grid n).
  * Each walk's new points are filtered against the polygon of their own extremes, in the frame
@@ -411,6 +435,7 @@ export function runPath(out: usize): void {
       filterGroup(PX, PY, first, base + hi + 1);
     }
     if (K > 1) filterJoint(g, hi);
+    else filterRotated();
     const h = chainCandidates();
     const r = out + (<usize>(4 * g) << 3);
     store<f64>(r, perimeter(HX, HY, h));
@@ -513,6 +538,7 @@ export function benchPaths(count: i32, level: i32): f64 {
         statGathered += <f64>(hi - prev);
       }
       if (K > 1) filterJoint(g, hi);
+      else filterRotated();
       statKept += <f64>candCount;
       if (level == 2) {
         check += <f64>candCount;
@@ -535,7 +561,7 @@ export function benchPaths(count: i32, level: i32): f64 {
 
 /**
  * Survival fraction of the point filters since the last benchResetStats: candidates left for the
- * sort and chain (after the per-walk and, for k > 1, the joint filter) per new point.
+ * sort and chain (after the per-walk pass and the joint (k > 1) or rotated (k = 1) pass) per new point.
  */
 export function benchSurvival(): f64 {
   return statGathered > 0 ? statKept / statGathered : 0.0;

@@ -238,12 +238,12 @@ static int K, N, G, *grid;
 static double *params; /* K * 5 */
 static double *PX, *PY, *NZ, *CX, *CY, *HX, *HY, *SEG;
 static int hullCount, candCount;
-static double fa = 1, fb = 0, fc = 1;
+static double fa = 1, fb = 0, fc = 1, fd = 0;
 static double exs[8], eys[8], absX, absY;
 #define FILTER_MIN 32
 
 static void setFrame(double cnt, double sx, double sy, double sxx, double sxy, double syy) {
-  fa = 1; fb = 0; fc = 1;
+  fa = 1; fb = 0; fc = 1; fd = 0;
   double mx = sx / cnt, my = sy / cnt;
   double cxx = sxx / cnt - mx * mx, cxy = sxy / cnt - mx * my, cyy = syy / cnt - my * my;
   if (!(cxx > 0) || !(cyy > 0)) return;
@@ -254,15 +254,15 @@ static void setFrame(double cnt, double sx, double sy, double sxx, double sxy, d
 }
 
 static void gatherGroup(const double *srcX, const double *srcY, int from, int to) {
-  double a = fa, b = fb, c = fc;
+  double a = fa, b = fb, c = fc, dd = fd;
   double x = srcX[from], y = srcY[from];
-  double u0 = a * x, v2 = b * x + c * y, s1v = u0 + v2, d7 = u0 - v2;
+  double u0 = a * x + dd * y, v2 = b * x + c * y, s1v = u0 + v2, d7 = u0 - v2;
   double u4 = u0, s5 = s1v, v6 = v2, d3 = d7;
   int i0 = from, i1 = from, i2 = from, i3 = from, i4 = from, i5 = from, i6 = from, i7 = from;
   double mxa = fabs(x), mya = fabs(y);
   for (int i = from + 1; i < to; i++) {
     x = srcX[i]; y = srcY[i];
-    double u = a * x, v = b * x + c * y, s = u + v, d = u - v;
+    double u = a * x + dd * y, v = b * x + c * y, s = u + v, d = u - v;
     if (u > u0) { u0 = u; i0 = i; }
     if (u < u4) { u4 = u; i4 = i; }
     if (s > s1v) { s1v = s; i1 = i; }
@@ -332,6 +332,22 @@ static void filterJoint(int g, int hi) {
   filterGroup(CX, CY, 0, count);
 }
 
+/* One walk: second pass in the walk's frame rotated by pi/8, in place. */
+#define COS_PI8 0.9238795325112867
+#define SIN_PI8 0.3826834323650898
+static void filterRotated(void) {
+  int count = candCount;
+  if (count < FILTER_MIN) return;
+  double a = fa, b = fb, c = fc;
+  fa = COS_PI8 * a + SIN_PI8 * b;
+  fd = SIN_PI8 * c;
+  fb = COS_PI8 * b - SIN_PI8 * a;
+  fc = COS_PI8 * c;
+  gatherGroup(CX, CY, 0, count);
+  candCount = 0;
+  filterGroup(CX, CY, 0, count);
+}
+
 static void runPath(double *out) {
   int stride = N + 1;
   memset(SEG, 0, sizeof(double) * 5 * G * K);
@@ -372,6 +388,7 @@ static void runPath(double *out) {
       filterGroup(PX, PY, base + prev + 1, base + hi + 1);
     }
     if (K > 1) filterJoint(g, hi);
+    else filterRotated();
     sortPoints(CX, CY, 0, candCount - 1);
     int h = hullCount = monotoneChain(CX, CY, candCount, HX, HY);
     double *r = out + 4 * g;
