@@ -18,7 +18,9 @@
 // - every extrapolated limit is refitted (a) on the grid minus its smallest n with the same model
 //   and (b) with an alternative correction model: two terms n^-1/2 and n^-1 for the power law (the
 //   leading orders of an expansion in n^-1/2, common practice for random-walk functionals), one
-//   more term n^-3/2 for the log model. se_syst = the largest |alternative - estimate|.
+//   more term for a drift expansion, and (c) for drift expansions, their leading terms on the 3-4
+//   largest n only (guards against slow small-n transients that a flexible fit absorbs).
+//   se_syst = the largest |alternative - estimate|.
 // - a value is tested by z = (estimate - value)/sqrt(se_stat^2 + se_syst^2), se_stat read off the
 //   side of the statistical interval that faces the value (the profile-likelihood interval is
 //   asymmetric), so the gated test inverts the reported total interval.
@@ -130,6 +132,10 @@ interface DriftExpansion {
   /** The next term, for the alternative model. */
   extra: Basis;
   extraLabel: string;
+  /** The fewest terms that can describe the largest n, fitted on `minimalPoints` largest n only. */
+  minimal: Basis[];
+  minimalFormula: string;
+  minimalPoints: number;
 }
 
 /**
@@ -145,11 +151,11 @@ interface DriftExpansion {
 function driftExpansion(s: ScaledSeries): DriftExpansion | null {
   if (s.quantity !== "meanGrowth") return null;
   if (s.scaling === 1 && s.measure === "perimeter")
-    return { basis: [ONE, LOG_OVER_N, INV_N], formula: "g + (a ln n + b)/n", why: "E L_n = n perimeter(P) + c log n + C, MATH.md [derived] for one walk, assumed for several", extra: powerOf(1.5), extraLabel: "d n^-3/2" };
+    return { basis: [ONE, LOG_OVER_N, INV_N], formula: "g + (a ln n + b)/n", why: "E L_n = n perimeter(P) + c log n + C, MATH.md [derived] for one walk, assumed for several", extra: powerOf(1.5), extraLabel: "d n^-3/2", minimal: [ONE, LOG_OVER_N, INV_N], minimalFormula: "g + (a ln n + b)/n", minimalPoints: 4 };
   if (s.scaling === 1 && s.measure === "diameter")
-    return { basis: [ONE, LOG_OVER_N, INV_N, powerOf(1.5)], formula: "g + (a ln n + b)/n + d n^-3/2", why: "E D_n = n|a - b| + O(1) (MATH.md item 5) with log and n^-1/2 corrections allowed: an assumption", extra: powerOf(2), extraLabel: "e n^-2" };
+    return { basis: [ONE, LOG_OVER_N, INV_N, powerOf(1.5)], formula: "g + (a ln n + b)/n + d n^-3/2", why: "E D_n = n|a - b| + O(1) (MATH.md item 5) with log and n^-1/2 corrections allowed: an assumption", extra: powerOf(2), extraLabel: "e n^-2", minimal: [ONE, INV_N], minimalFormula: "g + b/n", minimalPoints: 3 };
   if (s.scaling === 2 && s.measure === "area")
-    return { basis: [ONE, powerOf(0.5), LOG_OVER_N, INV_N], formula: "g + c n^-1/2 + (a ln n + b)/n", why: "E A_n = n^2 area(P) + O(n^3/2) + O(n log n) for drifting walks, MATH.md: an expansion assumed to continue with n", extra: powerOf(1.5), extraLabel: "d n^-3/2" };
+    return { basis: [ONE, powerOf(0.5), LOG_OVER_N, INV_N], formula: "g + c n^-1/2 + (a ln n + b)/n", why: "E A_n = n^2 area(P) + O(n^3/2) + O(n log n) for drifting walks, MATH.md: an expansion assumed to continue with n", extra: powerOf(1.5), extraLabel: "d n^-3/2", minimal: [ONE, powerOf(0.5)], minimalFormula: "g + c n^-1/2", minimalPoints: 3 };
   return null;
 }
 const HALF_INTEGER_BASIS = [() => 1, (n: number) => Math.pow(n, -0.5), (n: number) => 1 / n];
@@ -251,6 +257,14 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
     const alternatives = [
       ...(G - 1 >= k ? tryAlt(`same expansion ${dropLabel}`, () => linearFit(nR, yR, covR, B, expansion.basis).estimate) : []),
       ...(G >= k + 1 ? tryAlt(`expansion + ${expansion.extraLabel}`, () => linearFit(nK, y, cov, B, [...expansion.basis, expansion.extra]).estimate) : []),
+      // Slow transients at small n (e.g. a competing farthest pair, a near-tie) can be fitted by the
+      // flexible expansion and still extrapolate with a bias: the leading terms on the largest n only.
+      ...(G > expansion.minimalPoints
+        ? tryAlt(`${expansion.minimalFormula} on the ${expansion.minimalPoints} largest n`, () => {
+            const top = Array.from({ length: expansion.minimalPoints }, (_, i) => G - expansion.minimalPoints + i);
+            return linearFit(top.map((i) => nK[i]), top.map((i) => y[i]), subMatrix(cov, G, top), B, expansion.minimal).estimate;
+          })
+        : []),
     ];
     const g = fit.estimate;
     const gse = fit.se;
