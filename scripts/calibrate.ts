@@ -5,6 +5,9 @@
 //   npm run calibrate -- --smoke           # a few runs, for CI: exercises the code, claims nothing
 //   npm run calibrate -- --runs 300 --json calibration.json
 //
+// Runs are sequential; each uses --workers (default 2). Power budgets: paths x 1, 4, 16, 64 with
+// 30, 15, 8, 8 runs by default (fewer at the costly budgets; the Wilson interval says how few).
+//
 // The suite: one Gaussian walk, drift (1, 0), covariance I, perimeter and diameter on a 6-point grid
 // n = 32..1024 (1.5 decades). Its predictions are theorems: Spitzer-Widom exact means, sigma^2 = 4
 // for the perimeter (arXiv:1301.4059) and 1 for the diameter (arXiv:1803.08293), normal limits.
@@ -73,7 +76,7 @@ async function main() {
   const ffInterval = wilsonInterval(failedRuns, runs, 0.95);
 
   // 2. Power: a claimed sigma^2 2% too high, at the default budget and larger ones.
-  const budgets = smoke ? [paths] : [paths, paths * 4, paths * 16];
+  const budgets = smoke ? [paths] : [paths, paths * 4, paths * 16, paths * 64];
   const power = [];
   for (const budget of budgets) {
     const claimSuite: Suite = {
@@ -83,7 +86,7 @@ async function main() {
       claims: [{ measure: "perimeter", varianceLimit: TRUE_SIGMA2 * 1.02, label: "planted +2% error" }],
     };
     // Fewer runs at the larger budgets (each costs 4x more); the Wilson interval says how few.
-    const nRuns = budget === paths ? powerRuns : budget === paths * 4 ? Math.max(2, Math.round(powerRuns / 2)) : Math.max(2, Math.round(powerRuns / 4));
+    const nRuns = Math.max(2, Math.round(powerRuns / Math.min(4, Math.sqrt(budget / paths))));
     let detected = 0;
     for (let r = 0; r < nRuns; r++) {
       const v = await once(claimSuite, 2_000_003 + r);
