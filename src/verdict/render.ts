@@ -50,13 +50,14 @@ export function renderChecks(r: VerdictReport): string {
     out.push("Estimated limits (whatever was claimed or predicted; the place a conjecture starts)");
     out.push(
       table(
-        ["measure", "quantity", "method", "estimate", "95% CI", "beta", "misfit p"],
+        ["measure", "quantity", "method", "estimate", "95% CI (stat + syst)", "se_syst", "beta", "misfit p"],
         r.limits.map((l) => [
           l.measure,
           l.quantity === "varianceLimit" ? `Var/n^${l.scaling}` : `mean/n^${l.scaling}`,
           l.method,
           num(l.estimate),
           l.ci ? `[${num(l.ci[0])}, ${num(l.ci[1])}]` : "-",
+          l.systematic === undefined ? "-" : l.systematic === null ? (l.method === "none" ? "-" : "n/a") : num(l.systematic),
           l.beta === null ? "-" : l.betaInterval ? `${num(l.beta)} [${num(l.betaInterval[0])}, ${num(l.betaInterval[1])}]` : `${num(l.beta)} (assumed)`,
           pv(l.misfitPValue),
         ]),
