@@ -7,7 +7,7 @@
 //   --smoke  small sizes and short timings (CI: checks that everything runs, not speed)
 //   --cpu    time with this process's CPU time (user + system) instead of the wall clock: steadier
 //            when other jobs share the machine (it still counts GC and compiler threads).
-//            The native and numpy figures are always wall clock, measured in their own process.
+//            The native and numpy processes then use their own CPU time too.
 
 import { execFileSync, spawnSync } from "node:child_process";
 import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
@@ -117,7 +117,7 @@ function nativeValues(k: number, grid: number[], seed: number, block: number, pa
 }
 
 function nativeSeconds(argv: string[]): number {
-  const out = execFileSync(native!, [zigFile, ...argv], { encoding: "utf8" });
+  const out = execFileSync(native!, [zigFile, ...argv], { encoding: "utf8", env: { ...process.env, WALKHULL_CPU_CLOCK: cpuClock ? "1" : "0" } });
   return Number(out.trim().split(/\s+/)[0]);
 }
 
@@ -196,7 +196,7 @@ for (const k of KS) {
     if (havePy) {
       const pySteps = smoke ? 4000 : 100_000;
       const pyPaths = Math.max(1, Math.round(pySteps / n));
-      const r = spawnSync("/usr/bin/python3", [numpyScript, String(k), String(n), String(pyPaths), "2"], { encoding: "utf8" });
+      const r = spawnSync("/usr/bin/python3", [numpyScript, String(k), String(n), String(pyPaths), "2", ...(cpuClock ? ["cpu"] : [])], { encoding: "utf8" });
       if (r.status === 0) np = (JSON.parse(r.stdout) as { nsPerStep: number }).nsPerStep;
       else numpyNote = `numpy script failed: ${r.stderr.trim().split("\n").pop()}`;
     }
@@ -239,7 +239,7 @@ for (const k of KS) {
     const ex = stageKernels.get(`k=${k} n=${n}`)!;
     ex.benchResetStats();
     ex.seedBlock(1n, 999n);
-    ex.benchPaths(Math.max(1, Math.round(pathsFor(n) / 4)), 2);
+    ex.benchPaths(Math.max(8, pathsFor(n)), 2);
     const survival = ex.benchSurvival();
     stages.push({ walks: k, n, cumulative, stage, survival });
     pipeline.find((r) => r.walks === k && r.n === n)!.survival = survival;
