@@ -96,7 +96,10 @@ export interface MeasurePlan {
    * when the pilot cannot extrapolate (then the limit's SE is not included in the plan).
    */
   inflation: number | null;
-  /** Paths for the same target on the extrapolated limit: paths * inflation^2 (null with inflation). */
+  /**
+   * Paths for the same target on the extrapolated limit: paths * max(1, inflation)^2 (null without
+   * an inflation). An inflation below 1 (the fit pools every grid point) never lowers the plan.
+   */
   limitPaths: number | null;
   limitSeconds: number | null;
   note: string;
@@ -192,14 +195,15 @@ export function planSuite(suite: LoadedSuite, opts: PlanOptions): SuitePlan {
       const last = ex.limit.ratios[ex.limit.ratios.length - 1];
       if (ex.limit.method !== "none" && last.standardError > 0 && Number.isFinite(ex.limit.standardError)) {
         inflation = ex.limit.standardError / last.standardError;
-        note = `limit extrapolated by the pilot (${ex.limit.method}): its SE is ${inflation.toFixed(2)}x the SE at n = ${nMax}`;
+        note = `limit extrapolated by the pilot (${ex.limit.method}): its SE is ${inflation.toFixed(2)}x the SE at n = ${nMax}` +
+          (inflation < 1 ? " (below 1: the fit pools all grid points; the limit plan keeps the largest-n paths)" : "");
       } else {
         note = "the pilot cannot extrapolate this grid: the limit's extra SE is not included";
       }
     } catch (e) {
       note = `pilot extrapolation failed (${(e as Error).message}): the limit's extra SE is not included`;
     }
-    const limitPaths = inflation === null ? null : Math.ceil(paths * inflation * inflation);
+    const limitPaths = inflation === null ? null : Math.ceil(paths * Math.max(1, inflation) ** 2);
     return {
       ...base, targetSE, paths, seconds, inflation, limitPaths,
       limitSeconds: limitPaths === null ? null : (limitPaths * secondsPerPath) / workers, note,
@@ -239,8 +243,8 @@ export function renderPlan(plan: SuitePlan): string {
   lines.push(
     "",
     "The paths and times are for sigma^2 = Var(X_n)/n^p at the LARGEST n of the suite. The extrapolated",
-    "limit n -> infinity has a larger SE: the inflation column is SE(limit)/SE(largest n) from the pilot's",
-    "own extrapolation (itself noisy at pilot size); 'paths for the limit' = paths x inflation^2.",
+    "limit n -> infinity usually has a larger SE: the inflation column is SE(limit)/SE(largest n) from the",
+    "pilot's own extrapolation (itself noisy at pilot size); 'paths for the limit' = paths x max(1, inflation)^2.",
   );
   for (const m of plan.measures) lines.push(`- ${m.measure}: ${m.note}`);
   return lines.join("\n");
