@@ -100,3 +100,32 @@ describe("planner vs a run at the planned N", () => {
     expect(() => planSuite(oneWalk([64], 5), { goal: { kind: "detect", rel: 0.1 }, pilotPaths: 10 })).toThrow(/^pilotPaths:/);
   });
 });
+
+describe("walkhull plan: bad input exits 2 with a message naming the option", () => {
+  const suite = new URL("../../validation/one-walk-drift-gaussian.json", import.meta.url).pathname;
+  const run = async (args: string[]) => {
+    const { main } = await import("../../src/commands.js");
+    const errors: string[] = [];
+    const write = process.stderr.write.bind(process.stderr);
+    process.stderr.write = ((chunk: string) => { errors.push(String(chunk)); return true; }) as typeof process.stderr.write;
+    try {
+      return { code: await main(["plan", suite, ...args]), stderr: errors.join("") };
+    } finally {
+      process.stderr.write = write;
+    }
+  };
+  it("neither or both goals, non-positive values, zero workers", async () => {
+    for (const [args, pattern] of [
+      [[], /exactly one of --target-se X or --detect REL/],
+      [["--target-se", "0.1", "--detect", "0.1"], /exactly one of/],
+      [["--target-se", "0"], /^walkhull: --target-se: expected a positive number/],
+      [["--detect=-0.5"], /^walkhull: --detect: expected a positive number/],
+      [["--detect", "abc"], /^walkhull: --detect: expected a positive number/],
+      [["--detect", "0.1", "--workers", "0"], /^walkhull: --workers: must be >= 1/],
+    ] as [string[], RegExp][]) {
+      const r = await run(args);
+      expect(r.code).toBe(2);
+      expect(r.stderr).toMatch(pattern);
+    }
+  });
+});
