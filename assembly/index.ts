@@ -17,5 +17,6 @@ export {
   benchPaths,
   benchSurvival,
   benchResetStats,
+  benchChunkDropped,
 } from "./simulate";
 export { fillNormals, fillNormalsPolar, nextSubstream, zigTable, benchUniforms } from "./rng";

@@ -23,6 +23,7 @@ let CX: usize = 0, CY: usize = 0; // candidates
 let HX: usize = 0, HY: usize = 0; // hull
 let SEG: usize = 0; // f64[K * G * 5] per walk, cumulative sums x, y, xx, xy, yy up to n_g
 let EDGES: usize = 0; // f64[8 * 3]
+let BOX: usize = 0; // f64[4 * chunks]: per chunk of the last gathered group, min x, min y, max x, max y
 let hullCount: i32 = 0;
 let candCap: i32 = 0;
 
@@ -60,6 +61,7 @@ export function setup(k: i32, grid: usize, g: i32): void {
   HY = allocF64(2 * candCap + 2);
   SEG = allocF64(5 * g * k);
   EDGES = allocF64(24);
+  BOX = allocF64(4 * (candCap / CHUNK + 2));
 }
 
 export function setWalk(j: i32, code: i32, params: usize): void {
@@ -108,6 +110,27 @@ export function setFrame(cnt: f64, sx: f64, sy: f64, sxx: f64, sxy: f64, syy: f6
   return load<f64>(src + (<usize>i << 3));
 }
 
+/** Points per chunk of gatherGroup's bounding boxes and filterGroup's whole-chunk test. */
+const CHUNK: i32 = 32;
+let boxSrc: usize = 0, boxFrom: i32 = -1, boxTo: i32 = -1; // the group BOX describes
+
+/**
+ * First point of src[cs..min(cs + CHUNK, to)) whose value in direction kind (0: u, 1: u + v,
+ * 2: v, 3: u - v) equals target, computed as in gatherGroup; cs if none (never, for a target
+ * taken from that chunk).
+ */
+function firstWith(srcX: usize, srcY: usize, cs: i32, to: i32, kind: i32, target: f64): i32 {
+  const a = fa, b = fb, c = fc, dd = fd;
+  const ce = min(cs + CHUNK, to);
+  for (let i = cs; i < ce; i++) {
+    const x = ldx(srcX, i), y = ldx(srcY, i);
+    const u = x * a + y * dd, v = x * b + y * c;
+    const val = kind == 0 ? u : kind == 1 ? u + v : kind == 2 ? v : u - v;
+    if (val == target) return i;
+  }
+  return cs;
+}
+
 /**
  * Finds, for src[from..to) (to > from), in the current frame, the first point of largest u = x', u + v, v, -(u - v), -u, -(u + v), -v, u - v (v = y'), and max |x|, |y|.
  * Branch-free updates (a drifting walk sets a new maximum almost every step).
@@ -121,41 +144,70 @@ function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
   let i0 = from, i1 = from, i2 = from, i3 = from, i4 = from, i5 = from, i6 = from, i7 = from;
   let mxa = Math.abs(x), mya = Math.abs(y);
   if (ASC_FEATURE_SIMD) {
-    // Lanes: P = [u, v], Q = [u + v, u - v]; the same IEEE operations and strict comparisons as
-    // the scalar loop below (so the same extreme points), with indices carried as f64.
-    const AB = f64x2.replace_lane(f64x2.splat(a), 1, b);
-    const ZC = f64x2.replace_lane(f64x2.splat(dd), 1, c);
-    const PN = f64x2.replace_lane(f64x2.splat(1.0), 1, -1.0);
-    let pMax = f64x2.replace_lane(f64x2.splat(u0), 1, v2);
-    let pMin = pMax;
-    let qMax = f64x2.replace_lane(f64x2.splat(s1), 1, d7);
-    let qMin = qMax;
+    // Chunks of CHUNK points, two points per step (lanes = points): per chunk, the largest and
+    // smallest u, v, u + v, u - v (the same IEEE operations as the scalar loop below) and the
+    // chunk's bounding box in x, y (stored in BOX for filterGroup's chunk test). The first chunk
+    // reaching each extreme is kept (strict comparisons), then rescanned for its first point with
+    // that value: the same extreme points as the scalar loop. max |x|, |y| come from the boxes.
+    const A = f64x2.splat(a), D = f64x2.splat(dd), B = f64x2.splat(b), C = f64x2.splat(c);
+    const NEG = f64x2.splat(-Infinity), POS = f64x2.splat(Infinity);
+    let gPMax = NEG, gPMin = POS, gQMax = NEG, gQMin = POS; // [u, v], [u + v, u - v]
     const f0 = f64x2.splat(<f64>from);
     let ipMax = f0, ipMin = f0, iqMax = f0, iqMin = f0;
-    let absXY = f64x2.replace_lane(f64x2.splat(mxa), 1, mya);
-    for (let i = from + 1; i < to; i++) {
-      x = ldx(srcX, i);
-      y = ldx(srcY, i);
-      const X = f64x2.splat(x);
-      const Y = f64x2.splat(y);
-      const P = f64x2.add(f64x2.mul(X, AB), f64x2.mul(Y, ZC));
-      const Q = f64x2.add(f64x2.splat(f64x2.extract_lane(P, 0)), f64x2.mul(f64x2.splat(f64x2.extract_lane(P, 1)), PN));
-      const I = f64x2.splat(<f64>i);
-      let m = f64x2.gt(P, pMax);
-      pMax = v128.bitselect(P, pMax, m); ipMax = v128.bitselect(I, ipMax, m);
-      m = f64x2.lt(P, pMin);
-      pMin = v128.bitselect(P, pMin, m); ipMin = v128.bitselect(I, ipMin, m);
-      m = f64x2.gt(Q, qMax);
-      qMax = v128.bitselect(Q, qMax, m); iqMax = v128.bitselect(I, iqMax, m);
-      m = f64x2.lt(Q, qMin);
-      qMin = v128.bitselect(Q, qMin, m); iqMin = v128.bitselect(I, iqMin, m);
-      absXY = f64x2.pmax(absXY, f64x2.abs(f64x2.replace_lane(X, 1, y)));
+    let gLo = POS, gHi = NEG; // [x, y]
+    let box = BOX;
+    for (let cs = from; cs < to; cs += CHUNK) {
+      const ce = min(cs + CHUNK, to);
+      let uMx = NEG, uMn = POS, vMx = NEG, vMn = POS, sMx = NEG, sMn = POS, dMx = NEG, dMn = POS;
+      let xMn = POS, xMx = NEG, yMn = POS, yMx = NEG;
+      let i = cs;
+      for (; i < ce; i += 2) {
+        let xv: v128, yv: v128;
+        if (i + 1 < ce) {
+          xv = v128.load(srcX + (<usize>i << 3));
+          yv = v128.load(srcY + (<usize>i << 3));
+        } else {
+          xv = f64x2.splat(ldx(srcX, i)); // a lone last point in both lanes
+          yv = f64x2.splat(ldx(srcY, i));
+        }
+        const U = f64x2.add(f64x2.mul(xv, A), f64x2.mul(yv, D));
+        const V = f64x2.add(f64x2.mul(xv, B), f64x2.mul(yv, C));
+        const S = f64x2.add(U, V), Dd = f64x2.sub(U, V);
+        uMx = f64x2.pmax(uMx, U); uMn = f64x2.pmin(uMn, U);
+        vMx = f64x2.pmax(vMx, V); vMn = f64x2.pmin(vMn, V);
+        sMx = f64x2.pmax(sMx, S); sMn = f64x2.pmin(sMn, S);
+        dMx = f64x2.pmax(dMx, Dd); dMn = f64x2.pmin(dMn, Dd);
+        xMn = f64x2.pmin(xMn, xv); xMx = f64x2.pmax(xMx, xv);
+        yMn = f64x2.pmin(yMn, yv); yMx = f64x2.pmax(yMx, yv);
+      }
+      const CI = f64x2.splat(<f64>cs);
+      const PMx = f64x2.pmax(v128.shuffle<f64>(uMx, vMx, 0, 2), v128.shuffle<f64>(uMx, vMx, 1, 3));
+      const PMn = f64x2.pmin(v128.shuffle<f64>(uMn, vMn, 0, 2), v128.shuffle<f64>(uMn, vMn, 1, 3));
+      const QMx = f64x2.pmax(v128.shuffle<f64>(sMx, dMx, 0, 2), v128.shuffle<f64>(sMx, dMx, 1, 3));
+      const QMn = f64x2.pmin(v128.shuffle<f64>(sMn, dMn, 0, 2), v128.shuffle<f64>(sMn, dMn, 1, 3));
+      let m = f64x2.gt(PMx, gPMax); gPMax = v128.bitselect(PMx, gPMax, m); ipMax = v128.bitselect(CI, ipMax, m);
+      m = f64x2.lt(PMn, gPMin); gPMin = v128.bitselect(PMn, gPMin, m); ipMin = v128.bitselect(CI, ipMin, m);
+      m = f64x2.gt(QMx, gQMax); gQMax = v128.bitselect(QMx, gQMax, m); iqMax = v128.bitselect(CI, iqMax, m);
+      m = f64x2.lt(QMn, gQMin); gQMin = v128.bitselect(QMn, gQMin, m); iqMin = v128.bitselect(CI, iqMin, m);
+      const lo = f64x2.pmin(v128.shuffle<f64>(xMn, yMn, 0, 2), v128.shuffle<f64>(xMn, yMn, 1, 3));
+      const hi = f64x2.pmax(v128.shuffle<f64>(xMx, yMx, 0, 2), v128.shuffle<f64>(xMx, yMx, 1, 3));
+      v128.store(box, lo);
+      v128.store(box + 16, hi);
+      box += 32;
+      gLo = f64x2.pmin(gLo, lo);
+      gHi = f64x2.pmax(gHi, hi);
     }
-    i0 = <i32>f64x2.extract_lane(ipMax, 0); i2 = <i32>f64x2.extract_lane(ipMax, 1);
-    i4 = <i32>f64x2.extract_lane(ipMin, 0); i6 = <i32>f64x2.extract_lane(ipMin, 1);
-    i1 = <i32>f64x2.extract_lane(iqMax, 0); i7 = <i32>f64x2.extract_lane(iqMax, 1);
-    i5 = <i32>f64x2.extract_lane(iqMin, 0); i3 = <i32>f64x2.extract_lane(iqMin, 1);
-    mxa = f64x2.extract_lane(absXY, 0); mya = f64x2.extract_lane(absXY, 1);
+    boxSrc = srcX; boxFrom = from; boxTo = to;
+    i0 = firstWith(srcX, srcY, <i32>f64x2.extract_lane(ipMax, 0), to, 0, f64x2.extract_lane(gPMax, 0));
+    i2 = firstWith(srcX, srcY, <i32>f64x2.extract_lane(ipMax, 1), to, 2, f64x2.extract_lane(gPMax, 1));
+    i4 = firstWith(srcX, srcY, <i32>f64x2.extract_lane(ipMin, 0), to, 0, f64x2.extract_lane(gPMin, 0));
+    i6 = firstWith(srcX, srcY, <i32>f64x2.extract_lane(ipMin, 1), to, 2, f64x2.extract_lane(gPMin, 1));
+    i1 = firstWith(srcX, srcY, <i32>f64x2.extract_lane(iqMax, 0), to, 1, f64x2.extract_lane(gQMax, 0));
+    i7 = firstWith(srcX, srcY, <i32>f64x2.extract_lane(iqMax, 1), to, 3, f64x2.extract_lane(gQMax, 1));
+    i5 = firstWith(srcX, srcY, <i32>f64x2.extract_lane(iqMin, 0), to, 1, f64x2.extract_lane(gQMin, 0));
+    i3 = firstWith(srcX, srcY, <i32>f64x2.extract_lane(iqMin, 1), to, 3, f64x2.extract_lane(gQMin, 1));
+    mxa = max(Math.abs(f64x2.extract_lane(gLo, 0)), Math.abs(f64x2.extract_lane(gHi, 0)));
+    mya = max(Math.abs(f64x2.extract_lane(gLo, 1)), Math.abs(f64x2.extract_lane(gHi, 1)));
   } else {
     for (let i = from + 1; i < to; i++) {
       x = ldx(srcX, i);
@@ -259,6 +311,78 @@ export function filterGroup(srcX: usize, srcY: usize, from: i32, to: i32): i32 {
     const A5 = f64x2.splat(a5), B5 = f64x2.splat(b5), C5 = f64x2.splat(c5);
     const A6 = f64x2.splat(a6), B6 = f64x2.splat(b6), C6 = f64x2.splat(c6);
     const A7 = f64x2.splat(a7), B7 = f64x2.splat(b7), C7 = f64x2.splat(c7);
+    // Whole chunks first: if the 4 corners of a chunk's bounding box (BOX, from gatherGroup)
+    // pass the test, so does every point of the chunk (rounding is monotone: for each edge the
+    // computed a y - b x over the box is smallest at a corner), so the chunk is dropped at once;
+    // otherwise its points are tested. The same points survive, in the same order.
+    if (boxSrc == srcX && boxFrom == from && boxTo == to) {
+      let box = BOX;
+      for (let cs = from; cs < to; cs += CHUNK) {
+        const ce = min(cs + CHUNK, to);
+        const lo = v128.load(box), hi = v128.load(box + 16);
+        box += 32;
+        const xv = v128.shuffle<f64>(lo, hi, 0, 2); // [min x, max x]
+        const y0 = f64x2.splat(f64x2.extract_lane(lo, 1));
+        const y1 = f64x2.splat(f64x2.extract_lane(hi, 1));
+        let m = f64x2.gt(f64x2.sub(f64x2.mul(A0, y0), f64x2.mul(B0, xv)), C0);
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A0, y1), f64x2.mul(B0, xv)), C0));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A1, y0), f64x2.mul(B1, xv)), C1));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A1, y1), f64x2.mul(B1, xv)), C1));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A2, y0), f64x2.mul(B2, xv)), C2));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A2, y1), f64x2.mul(B2, xv)), C2));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A3, y0), f64x2.mul(B3, xv)), C3));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A3, y1), f64x2.mul(B3, xv)), C3));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A4, y0), f64x2.mul(B4, xv)), C4));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A4, y1), f64x2.mul(B4, xv)), C4));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A5, y0), f64x2.mul(B5, xv)), C5));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A5, y1), f64x2.mul(B5, xv)), C5));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A6, y0), f64x2.mul(B6, xv)), C6));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A6, y1), f64x2.mul(B6, xv)), C6));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A7, y0), f64x2.mul(B7, xv)), C7));
+        m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A7, y1), f64x2.mul(B7, xv)), C7));
+        if (i64x2.all_true(m)) {
+          statChunkPoints += <f64>(ce - cs);
+          continue;
+        }
+        i = cs;
+        for (; i + 1 < ce; i += 2) {
+          const xv = v128.load(srcX + (<usize>i << 3));
+          const yv = v128.load(srcY + (<usize>i << 3));
+          let m = f64x2.gt(f64x2.sub(f64x2.mul(A0, yv), f64x2.mul(B0, xv)), C0);
+          m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A1, yv), f64x2.mul(B1, xv)), C1));
+          m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A2, yv), f64x2.mul(B2, xv)), C2));
+          m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A3, yv), f64x2.mul(B3, xv)), C3));
+          m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A4, yv), f64x2.mul(B4, xv)), C4));
+          m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A5, yv), f64x2.mul(B5, xv)), C5));
+          m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A6, yv), f64x2.mul(B6, xv)), C6));
+          m = v128.and(m, f64x2.gt(f64x2.sub(f64x2.mul(A7, yv), f64x2.mul(B7, xv)), C7));
+          if (i64x2.all_true(m)) continue;
+          if (i64x2.extract_lane(m, 0) == 0) {
+            store<f64>(CX + (<usize>w << 3), f64x2.extract_lane(xv, 0));
+            store<f64>(CY + (<usize>w << 3), f64x2.extract_lane(yv, 0));
+            w++;
+          }
+          if (i64x2.extract_lane(m, 1) == 0) {
+            store<f64>(CX + (<usize>w << 3), f64x2.extract_lane(xv, 1));
+            store<f64>(CY + (<usize>w << 3), f64x2.extract_lane(yv, 1));
+            w++;
+          }
+        }
+        if (i < ce) {
+          const x = load<f64>(srcX + (<usize>i << 3));
+          const y = load<f64>(srcY + (<usize>i << 3));
+          const inside =
+            a0 * y - b0 * x > c0 && a1 * y - b1 * x > c1 && a2 * y - b2 * x > c2 && a3 * y - b3 * x > c3 &&
+            a4 * y - b4 * x > c4 && a5 * y - b5 * x > c5 && a6 * y - b6 * x > c6 && a7 * y - b7 * x > c7;
+          if (!inside) {
+            store<f64>(CX + (<usize>w << 3), x);
+            store<f64>(CY + (<usize>w << 3), y);
+            w++;
+          }
+        }
+      }
+      i = to;
+    }
     for (; i + 1 < to; i += 2) {
       const xv = v128.load(srcX + (<usize>i << 3));
       const yv = v128.load(srcY + (<usize>i << 3));
@@ -497,6 +621,7 @@ export function measureHull(out: usize): void {
 const BENCH_FUNCTIONAL_REPS: i32 = 8;
 let statGathered: f64 = 0;
 let statKept: f64 = 0;
+let statChunkPoints: f64 = 0;
 
 /**
  * Runs `count` paths of the current block stream through the pipeline's stages up to `level`:
@@ -570,4 +695,13 @@ export function benchSurvival(): f64 {
 export function benchResetStats(): void {
   statGathered = 0;
   statKept = 0;
+  statChunkPoints = 0;
+}
+
+/**
+ * Points dropped in whole chunks (filterGroup's box test, any pass) per new point, over the
+ * benchPaths calls since the last benchResetStats.
+ */
+export function benchChunkDropped(): f64 {
+  return statGathered > 0 ? statChunkPoints / statGathered : 0.0;
 }
