@@ -11,6 +11,9 @@
 // block order (so the bits do not depend on how blocks were computed). Cost O(g^2 s) merges, s the
 // number of series per block.
 // Example: the mean of one series, blocks of equal size: Cov equals s^2/N up to the block effect.
+// jackknifeVariance(result, f) applies the same formula to a scalar function f of the statistic
+// (f evaluated on theta and on each theta_(-j)): the jackknife variance of f(theta), e.g. of the
+// difference of two fits of the same data; for a linear f(v) = c'v it equals c' Cov c exactly.
 
 import { emptyMoments, mergeMoments } from "./moments.js";
 import type { MomentState } from "./types.js";
@@ -24,6 +27,10 @@ export interface JackknifeResult {
   covariance: Float64Array;
   /** Number of blocks used. */
   blocks: number;
+  /** theta_(-j): the statistic with block j removed, j = 0..g-1. */
+  leaveOut: Float64Array[];
+  /** Number of values (count) of each block. */
+  sizes: number[];
 }
 
 /**
@@ -77,5 +84,27 @@ export function blockJackknife(
     const w = 1 / (g * (h - 1));
     for (let a = 0; a < d; a++) for (let b = 0; b < d; b++) covariance[a * d + b] += w * dev[a] * dev[b];
   }
-  return { estimate: full, biasCorrected, covariance, blocks: g };
+  return { estimate: full, biasCorrected, covariance, blocks: g, leaveOut, sizes };
+}
+
+/**
+ * Jackknife variance (Busing et al. 1999, as above) of the scalar f(theta), with f evaluated on the
+ * full statistic and on every delete-one-block statistic of `jk`. NaN when f is not finite on one
+ * of them (the caller decides what an unknown variance means).
+ */
+export function jackknifeVariance(jk: JackknifeResult, f: (theta: Float64Array) => number): number {
+  const g = jk.blocks;
+  const total = jk.sizes.reduce((a, b) => a + b, 0);
+  const full = f(jk.estimate);
+  const loo = jk.leaveOut.map((t) => f(t));
+  if (!Number.isFinite(full) || !loo.every(Number.isFinite)) return NaN;
+  let thetaJ = g * full;
+  for (let j = 0; j < g; j++) thetaJ -= (1 - jk.sizes[j] / total) * loo[j];
+  let v = 0;
+  for (let j = 0; j < g; j++) {
+    const h = total / jk.sizes[j];
+    const dev = h * full - (h - 1) * loo[j] - thetaJ;
+    v += (dev * dev) / (h - 1);
+  }
+  return v / g;
 }
