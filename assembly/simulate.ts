@@ -24,6 +24,7 @@ let HX: usize = 0, HY: usize = 0; // hull
 let SEG: usize = 0; // f64[K * G * 5] per walk, cumulative sums x, y, xx, xy, yy up to n_g
 let EDGES: usize = 0; // f64[8 * 3]
 let BOX: usize = 0; // f64[4 * chunks]: per chunk of the last gathered group, min x, min y, max x, max y
+let BND: usize = 0; // f64[8 * chunks]: per chunk, bounds on u, v, u + v, u - v (gatherGroup)
 let hullCount: i32 = 0;
 let candCap: i32 = 0;
 
@@ -62,6 +63,7 @@ export function setup(k: i32, grid: usize, g: i32): void {
   SEG = allocF64(5 * g * k);
   EDGES = allocF64(24);
   BOX = allocF64(4 * (candCap / CHUNK + 2));
+  BND = allocF64(8 * (candCap / CHUNK + 2));
 }
 
 export function setWalk(j: i32, code: i32, params: usize): void {
@@ -112,12 +114,14 @@ export function setFrame(cnt: f64, sx: f64, sy: f64, sxx: f64, sxy: f64, syy: f6
 
 /** Points per chunk of gatherGroup's bounding boxes and filterGroup's whole-chunk test. */
 const CHUNK: i32 = 32;
+/** Groups from this size on evaluate only the chunks whose bounds may hold an extreme; smaller ones evaluate all. */
+const GUIDED_MIN: i32 = 8192;
 let boxSrc: usize = 0, boxFrom: i32 = -1, boxTo: i32 = -1; // the group BOX describes
 
 /**
  * First point of src[cs..min(cs + CHUNK, to)) whose value in direction kind (0: u, 1: u + v,
  * 2: v, 3: u - v) equals target, computed as in gatherGroup; cs if none (never, for a target
- * taken from that chunk).
+ * taken from that chunk; an infinite extreme may leave cs = to, then to - 1).
  */
 function firstWith(srcX: usize, srcY: usize, cs: i32, to: i32, kind: i32, target: f64): i32 {
   const a = fa, b = fb, c = fc, dd = fd;
@@ -128,7 +132,51 @@ function firstWith(srcX: usize, srcY: usize, cs: i32, to: i32, kind: i32, target
     const val = kind == 0 ? u : kind == 1 ? u + v : kind == 2 ? v : u - v;
     if (val == target) return i;
   }
-  return cs;
+  return cs < to ? cs : to - 1;
+}
+
+// Best values found so far by evalChunk ([u, v] and [u + v, u - v], largest and smallest) and
+// the first chunk (its first index, as f64) holding each.
+let gPMax: v128 = f64x2.splat(0), gPMin: v128 = f64x2.splat(0), gQMax: v128 = f64x2.splat(0), gQMin: v128 = f64x2.splat(0);
+let ipMax: v128 = f64x2.splat(0), ipMin: v128 = f64x2.splat(0), iqMax: v128 = f64x2.splat(0), iqMin: v128 = f64x2.splat(0);
+
+/** Extremes of u, v, u + v, u - v over src[cs..min(cs + CHUNK, to)), merged into the best values. */
+function evalChunk(srcX: usize, srcY: usize, cs: i32, to: i32): void {
+  const A = f64x2.splat(fa), D = f64x2.splat(fd), B = f64x2.splat(fb), C = f64x2.splat(fc);
+  const NEG = f64x2.splat(-Infinity), POS = f64x2.splat(Infinity);
+  const ce = min(cs + CHUNK, to);
+  let uMx = NEG, uMn = POS, vMx = NEG, vMn = POS, sMx = NEG, sMn = POS, dMx = NEG, dMn = POS;
+  for (let i = cs; i < ce; i += 2) {
+    let xv: v128, yv: v128;
+    if (i + 1 < ce) {
+      xv = v128.load(srcX + (<usize>i << 3));
+      yv = v128.load(srcY + (<usize>i << 3));
+    } else {
+      xv = f64x2.splat(ldx(srcX, i)); // a lone last point in both lanes
+      yv = f64x2.splat(ldx(srcY, i));
+    }
+    const U = f64x2.add(f64x2.mul(xv, A), f64x2.mul(yv, D));
+    const V = f64x2.add(f64x2.mul(xv, B), f64x2.mul(yv, C));
+    const S = f64x2.add(U, V), Dd = f64x2.sub(U, V);
+    uMx = f64x2.pmax(uMx, U); uMn = f64x2.pmin(uMn, U);
+    vMx = f64x2.pmax(vMx, V); vMn = f64x2.pmin(vMn, V);
+    sMx = f64x2.pmax(sMx, S); sMn = f64x2.pmin(sMn, S);
+    dMx = f64x2.pmax(dMx, Dd); dMn = f64x2.pmin(dMn, Dd);
+  }
+  const PMx = f64x2.pmax(v128.shuffle<f64>(uMx, vMx, 0, 2), v128.shuffle<f64>(uMx, vMx, 1, 3));
+  const PMn = f64x2.pmin(v128.shuffle<f64>(uMn, vMn, 0, 2), v128.shuffle<f64>(uMn, vMn, 1, 3));
+  const QMx = f64x2.pmax(v128.shuffle<f64>(sMx, dMx, 0, 2), v128.shuffle<f64>(sMx, dMx, 1, 3));
+  const QMn = f64x2.pmin(v128.shuffle<f64>(sMn, dMn, 0, 2), v128.shuffle<f64>(sMn, dMn, 1, 3));
+  const CI = f64x2.splat(<f64>cs);
+  // A better value, or the same value in an earlier chunk.
+  let m = v128.or(f64x2.gt(PMx, gPMax), v128.and(f64x2.eq(PMx, gPMax), f64x2.lt(CI, ipMax)));
+  gPMax = v128.bitselect(PMx, gPMax, m); ipMax = v128.bitselect(CI, ipMax, m);
+  m = v128.or(f64x2.lt(PMn, gPMin), v128.and(f64x2.eq(PMn, gPMin), f64x2.lt(CI, ipMin)));
+  gPMin = v128.bitselect(PMn, gPMin, m); ipMin = v128.bitselect(CI, ipMin, m);
+  m = v128.or(f64x2.gt(QMx, gQMax), v128.and(f64x2.eq(QMx, gQMax), f64x2.lt(CI, iqMax)));
+  gQMax = v128.bitselect(QMx, gQMax, m); iqMax = v128.bitselect(CI, iqMax, m);
+  m = v128.or(f64x2.lt(QMn, gQMin), v128.and(f64x2.eq(QMn, gQMin), f64x2.lt(CI, iqMin)));
+  gQMin = v128.bitselect(QMn, gQMin, m); iqMin = v128.bitselect(CI, iqMin, m);
 }
 
 /**
@@ -144,51 +192,87 @@ function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
   let i0 = from, i1 = from, i2 = from, i3 = from, i4 = from, i5 = from, i6 = from, i7 = from;
   let mxa = Math.abs(x), mya = Math.abs(y);
   if (ASC_FEATURE_SIMD) {
-    // Chunks of CHUNK points, two points per step (lanes = points): per chunk, the largest and
-    // smallest u, v, u + v, u - v (the same IEEE operations as the scalar loop below) and the
-    // chunk's bounding box in x, y (stored in BOX for filterGroup's chunk test). The first chunk
-    // reaching each extreme is kept (strict comparisons), then rescanned for its first point with
-    // that value: the same extreme points as the scalar loop. max |x|, |y| come from the boxes.
+    // Chunks of CHUNK points, two points per step; each chunk's bounding box in x, y goes to BOX
+    // (filterGroup's chunk test), and the first chunk holding each extreme value of u, v, u + v,
+    // u - v (the same IEEE operations as the scalar loop below) is rescanned for its first point
+    // with it: the same extreme points as the scalar loop. Small groups evaluate every chunk in
+    // the same pass. Groups of GUIDED_MIN points or more first compute only the boxes, and bounds
+    // on u, v, u + v, u - v over each chunk (into BND) from the box corners: rounding is
+    // monotone, so the computed u = a x + d y of any point of the box lies between its values at
+    // the corners, and u + v, u - v between the sums and differences of those bounds. Then only
+    // the chunks that may hold an extreme are evaluated (evalChunk): first the chunk of the
+    // largest bound in each direction, then, in order, every chunk whose bound reaches the best
+    // value found.
     const A = f64x2.splat(a), D = f64x2.splat(dd), B = f64x2.splat(b), C = f64x2.splat(c);
     const NEG = f64x2.splat(-Infinity), POS = f64x2.splat(Infinity);
-    let gPMax = NEG, gPMin = POS, gQMax = NEG, gQMin = POS; // [u, v], [u + v, u - v]
+    let bPMax = NEG, bPMin = POS, bQMax = NEG, bQMin = POS; // largest bounds: [u, v], [u + v, u - v]
     const f0 = f64x2.splat(<f64>from);
-    let ipMax = f0, ipMin = f0, iqMax = f0, iqMin = f0;
+    let jpMax = f0, jpMin = f0, jqMax = f0, jqMin = f0;
     let gLo = POS, gHi = NEG; // [x, y]
-    let box = BOX;
+    let box = BOX, bnd = BND;
+    const guided = to - from >= GUIDED_MIN;
+    gPMax = NEG; gPMin = POS; gQMax = NEG; gQMin = POS;
+    const late = f64x2.splat(<f64>(guided ? to : from));
+    ipMax = late; ipMin = late; iqMax = late; iqMin = late;
+    if (!guided) {
+      // Small groups: boxes and extremes of every chunk in one pass.
+      for (let cs = from; cs < to; cs += CHUNK) {
+        const ce = min(cs + CHUNK, to);
+        let uMx = NEG, uMn = POS, vMx = NEG, vMn = POS, sMx = NEG, sMn = POS, dMx = NEG, dMn = POS;
+        let xMn = POS, xMx = NEG, yMn = POS, yMx = NEG;
+        for (let i = cs; i < ce; i += 2) {
+          let xv: v128, yv: v128;
+          if (i + 1 < ce) {
+            xv = v128.load(srcX + (<usize>i << 3));
+            yv = v128.load(srcY + (<usize>i << 3));
+          } else {
+            xv = f64x2.splat(ldx(srcX, i)); // a lone last point in both lanes
+            yv = f64x2.splat(ldx(srcY, i));
+          }
+          const U = f64x2.add(f64x2.mul(xv, A), f64x2.mul(yv, D));
+          const V = f64x2.add(f64x2.mul(xv, B), f64x2.mul(yv, C));
+          const S = f64x2.add(U, V), Dd = f64x2.sub(U, V);
+          uMx = f64x2.pmax(uMx, U); uMn = f64x2.pmin(uMn, U);
+          vMx = f64x2.pmax(vMx, V); vMn = f64x2.pmin(vMn, V);
+          sMx = f64x2.pmax(sMx, S); sMn = f64x2.pmin(sMn, S);
+          dMx = f64x2.pmax(dMx, Dd); dMn = f64x2.pmin(dMn, Dd);
+          xMn = f64x2.pmin(xMn, xv); xMx = f64x2.pmax(xMx, xv);
+          yMn = f64x2.pmin(yMn, yv); yMx = f64x2.pmax(yMx, yv);
+        }
+        const CI = f64x2.splat(<f64>cs);
+        const PMx = f64x2.pmax(v128.shuffle<f64>(uMx, vMx, 0, 2), v128.shuffle<f64>(uMx, vMx, 1, 3));
+        const PMn = f64x2.pmin(v128.shuffle<f64>(uMn, vMn, 0, 2), v128.shuffle<f64>(uMn, vMn, 1, 3));
+        const QMx = f64x2.pmax(v128.shuffle<f64>(sMx, dMx, 0, 2), v128.shuffle<f64>(sMx, dMx, 1, 3));
+        const QMn = f64x2.pmin(v128.shuffle<f64>(sMn, dMn, 0, 2), v128.shuffle<f64>(sMn, dMn, 1, 3));
+        // Chunks in order: strict comparisons keep the first chunk holding each extreme value.
+        let m = f64x2.gt(PMx, gPMax); gPMax = v128.bitselect(PMx, gPMax, m); ipMax = v128.bitselect(CI, ipMax, m);
+        m = f64x2.lt(PMn, gPMin); gPMin = v128.bitselect(PMn, gPMin, m); ipMin = v128.bitselect(CI, ipMin, m);
+        m = f64x2.gt(QMx, gQMax); gQMax = v128.bitselect(QMx, gQMax, m); iqMax = v128.bitselect(CI, iqMax, m);
+        m = f64x2.lt(QMn, gQMin); gQMin = v128.bitselect(QMn, gQMin, m); iqMin = v128.bitselect(CI, iqMin, m);
+        const lo = f64x2.pmin(v128.shuffle<f64>(xMn, yMn, 0, 2), v128.shuffle<f64>(xMn, yMn, 1, 3));
+        const hi = f64x2.pmax(v128.shuffle<f64>(xMx, yMx, 0, 2), v128.shuffle<f64>(xMx, yMx, 1, 3));
+        v128.store(box, lo);
+        v128.store(box + 16, hi);
+        box += 32;
+        gLo = f64x2.pmin(gLo, lo);
+        gHi = f64x2.pmax(gHi, hi);
+      }
+    } else {
     for (let cs = from; cs < to; cs += CHUNK) {
       const ce = min(cs + CHUNK, to);
-      let uMx = NEG, uMn = POS, vMx = NEG, vMn = POS, sMx = NEG, sMn = POS, dMx = NEG, dMn = POS;
       let xMn = POS, xMx = NEG, yMn = POS, yMx = NEG;
       let i = cs;
-      for (; i < ce; i += 2) {
-        let xv: v128, yv: v128;
-        if (i + 1 < ce) {
-          xv = v128.load(srcX + (<usize>i << 3));
-          yv = v128.load(srcY + (<usize>i << 3));
-        } else {
-          xv = f64x2.splat(ldx(srcX, i)); // a lone last point in both lanes
-          yv = f64x2.splat(ldx(srcY, i));
-        }
-        const U = f64x2.add(f64x2.mul(xv, A), f64x2.mul(yv, D));
-        const V = f64x2.add(f64x2.mul(xv, B), f64x2.mul(yv, C));
-        const S = f64x2.add(U, V), Dd = f64x2.sub(U, V);
-        uMx = f64x2.pmax(uMx, U); uMn = f64x2.pmin(uMn, U);
-        vMx = f64x2.pmax(vMx, V); vMn = f64x2.pmin(vMn, V);
-        sMx = f64x2.pmax(sMx, S); sMn = f64x2.pmin(sMn, S);
-        dMx = f64x2.pmax(dMx, Dd); dMn = f64x2.pmin(dMn, Dd);
+      for (; i + 1 < ce; i += 2) {
+        const xv = v128.load(srcX + (<usize>i << 3));
+        const yv = v128.load(srcY + (<usize>i << 3));
         xMn = f64x2.pmin(xMn, xv); xMx = f64x2.pmax(xMx, xv);
         yMn = f64x2.pmin(yMn, yv); yMx = f64x2.pmax(yMx, yv);
       }
-      const CI = f64x2.splat(<f64>cs);
-      const PMx = f64x2.pmax(v128.shuffle<f64>(uMx, vMx, 0, 2), v128.shuffle<f64>(uMx, vMx, 1, 3));
-      const PMn = f64x2.pmin(v128.shuffle<f64>(uMn, vMn, 0, 2), v128.shuffle<f64>(uMn, vMn, 1, 3));
-      const QMx = f64x2.pmax(v128.shuffle<f64>(sMx, dMx, 0, 2), v128.shuffle<f64>(sMx, dMx, 1, 3));
-      const QMn = f64x2.pmin(v128.shuffle<f64>(sMn, dMn, 0, 2), v128.shuffle<f64>(sMn, dMn, 1, 3));
-      let m = f64x2.gt(PMx, gPMax); gPMax = v128.bitselect(PMx, gPMax, m); ipMax = v128.bitselect(CI, ipMax, m);
-      m = f64x2.lt(PMn, gPMin); gPMin = v128.bitselect(PMn, gPMin, m); ipMin = v128.bitselect(CI, ipMin, m);
-      m = f64x2.gt(QMx, gQMax); gQMax = v128.bitselect(QMx, gQMax, m); iqMax = v128.bitselect(CI, iqMax, m);
-      m = f64x2.lt(QMn, gQMin); gQMin = v128.bitselect(QMn, gQMin, m); iqMin = v128.bitselect(CI, iqMin, m);
+      if (i < ce) {
+        const xv = f64x2.splat(ldx(srcX, i)), yv = f64x2.splat(ldx(srcY, i));
+        xMn = f64x2.pmin(xMn, xv); xMx = f64x2.pmax(xMx, xv);
+        yMn = f64x2.pmin(yMn, yv); yMx = f64x2.pmax(yMx, yv);
+      }
       const lo = f64x2.pmin(v128.shuffle<f64>(xMn, yMn, 0, 2), v128.shuffle<f64>(xMn, yMn, 1, 3));
       const hi = f64x2.pmax(v128.shuffle<f64>(xMx, yMx, 0, 2), v128.shuffle<f64>(xMx, yMx, 1, 3));
       v128.store(box, lo);
@@ -196,6 +280,44 @@ function gatherGroup(srcX: usize, srcY: usize, from: i32, to: i32): void {
       box += 32;
       gLo = f64x2.pmin(gLo, lo);
       gHi = f64x2.pmax(gHi, hi);
+      // Corners: XS = [min x, max x] with min y (Y0) and max y (Y1).
+      const XS = v128.shuffle<f64>(lo, hi, 0, 2);
+      const Y0 = f64x2.splat(f64x2.extract_lane(lo, 1)), Y1 = f64x2.splat(f64x2.extract_lane(hi, 1));
+      const U0 = f64x2.add(f64x2.mul(XS, A), f64x2.mul(Y0, D)), U1 = f64x2.add(f64x2.mul(XS, A), f64x2.mul(Y1, D));
+      const V0 = f64x2.add(f64x2.mul(XS, B), f64x2.mul(Y0, C)), V1 = f64x2.add(f64x2.mul(XS, B), f64x2.mul(Y1, C));
+      const uH = f64x2.pmax(U0, U1), uL = f64x2.pmin(U0, U1), vH = f64x2.pmax(V0, V1), vL = f64x2.pmin(V0, V1);
+      const PH = f64x2.pmax(v128.shuffle<f64>(uH, vH, 0, 2), v128.shuffle<f64>(uH, vH, 1, 3)); // [u, v] upper bounds
+      const PL = f64x2.pmin(v128.shuffle<f64>(uL, vL, 0, 2), v128.shuffle<f64>(uL, vL, 1, 3)); // lower bounds
+      const QH = f64x2.add(f64x2.splat(f64x2.extract_lane(PH, 0)), v128.shuffle<f64>(PH, f64x2.neg(PL), 1, 3));
+      const QL = f64x2.add(f64x2.splat(f64x2.extract_lane(PL, 0)), v128.shuffle<f64>(PL, f64x2.neg(PH), 1, 3));
+      v128.store(bnd, PH);
+      v128.store(bnd + 16, PL);
+      v128.store(bnd + 32, QH);
+      v128.store(bnd + 48, QL);
+      bnd += 64;
+      const CI = f64x2.splat(<f64>cs);
+      let m = f64x2.gt(PH, bPMax); bPMax = v128.bitselect(PH, bPMax, m); jpMax = v128.bitselect(CI, jpMax, m);
+      m = f64x2.lt(PL, bPMin); bPMin = v128.bitselect(PL, bPMin, m); jpMin = v128.bitselect(CI, jpMin, m);
+      m = f64x2.gt(QH, bQMax); bQMax = v128.bitselect(QH, bQMax, m); jqMax = v128.bitselect(CI, jqMax, m);
+      m = f64x2.lt(QL, bQMin); bQMin = v128.bitselect(QL, bQMin, m); jqMin = v128.bitselect(CI, jqMin, m);
+    }
+    evalChunk(srcX, srcY, <i32>f64x2.extract_lane(jpMax, 0), to);
+    evalChunk(srcX, srcY, <i32>f64x2.extract_lane(jpMax, 1), to);
+    evalChunk(srcX, srcY, <i32>f64x2.extract_lane(jpMin, 0), to);
+    evalChunk(srcX, srcY, <i32>f64x2.extract_lane(jpMin, 1), to);
+    evalChunk(srcX, srcY, <i32>f64x2.extract_lane(jqMax, 0), to);
+    evalChunk(srcX, srcY, <i32>f64x2.extract_lane(jqMax, 1), to);
+    evalChunk(srcX, srcY, <i32>f64x2.extract_lane(jqMin, 0), to);
+    evalChunk(srcX, srcY, <i32>f64x2.extract_lane(jqMin, 1), to);
+    bnd = BND;
+    for (let cs = from; cs < to; cs += CHUNK) {
+      let m = f64x2.ge(v128.load(bnd), gPMax);
+      m = v128.or(m, f64x2.le(v128.load(bnd + 16), gPMin));
+      m = v128.or(m, f64x2.ge(v128.load(bnd + 32), gQMax));
+      m = v128.or(m, f64x2.le(v128.load(bnd + 48), gQMin));
+      bnd += 64;
+      if (v128.any_true(m)) evalChunk(srcX, srcY, cs, to);
+    }
     }
     boxSrc = srcX; boxFrom = from; boxTo = to;
     i0 = firstWith(srcX, srcY, <i32>f64x2.extract_lane(ipMax, 0), to, 0, f64x2.extract_lane(gPMax, 0));
