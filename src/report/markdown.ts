@@ -87,13 +87,14 @@ export function reportSections(r: Report): Sections {
       .filter((m) => measures.includes(m.measure))
       .map((m) => ({ measure: m.measure, table: predictionTable(m), reasons: m.reasons ?? [], sources: m.sources ?? [] })),
     limits: {
-      header: ["measure", "quantity", "method", "estimate", "SE", "CI", "rate beta", "beta interval", "misfit p"],
+      header: ["measure", "quantity", "method", "estimate", "SE", "se_syst", "CI", "rate beta", "beta interval", "misfit p"],
       rows: limits.map((l) => [
         l.measure,
         l.quantity === "varianceLimit" ? `lim Var/n^${sig(l.scaling, 3)}` : `lim E/n^${sig(l.scaling, 3)}`,
         l.method,
         num(l.estimate, 7),
         num(l.standardError, 3),
+        l.systematic == null ? "-" : num(l.systematic, 3),
         l.ci ? `${ci(l.ci)} (${Math.round(100 * l.level)}%)` : "-",
         num(l.beta, 3),
         ci(l.betaInterval),
