@@ -1,7 +1,8 @@
 /*
  * Native C baseline of the WASM kernel (assembly/ *.ts files), Gaussian step laws only: the same
  * xoshiro256** streams seeded by splitmix64, the same 256-layer ziggurat (tables passed in by the
- * bench, so they are the kernel's), the same per-walk frame, extremes and certified octagon filter,
+ * bench, so they are the kernel's), the same per-walk frame, extremes and certified octagon filter
+ * (with the same chunk boxes and chunk-bounded search for extremes, scalar),
  * the same quicksort + monotone chain with the exact orientation sign, the same compensated
  * measures, in the same order. Built by bench/pipeline.ts with gcc -O3 -ffp-contract=off (no FMA
  * contraction, so the floating-point operations are those of the WASM build).
@@ -253,31 +254,99 @@ static void setFrame(double cnt, double sx, double sy, double sxx, double sxy, d
   fa = 1.0 / l11; fb = -l21 / (l11 * l22); fc = 1.0 / l22;
 }
 
+/* Chunks of CHUNK points: bounding boxes (BOX) for filterGroup's whole-chunk test; extremes from
+ * per-chunk maxima, the first chunk holding each rescanned for its first point with it; groups of
+ * GUIDED_MIN points or more evaluate only the chunks whose corner bounds (BND) may hold an extreme
+ * (as assembly/simulate.ts gatherGroup, scalar). */
+#define CHUNK 32
+#define GUIDED_MIN 2048
+static double *BOX, *BND;
+static const double *boxSrc = 0;
+static int boxFrom = -1, boxTo = -1;
+/* Directions: 0 max u, 1 max v, 2 min u, 3 min v, 4 max u+v, 5 max u-v, 6 min u+v, 7 min u-v. */
+static double best[8];
+static int bestChunk[8];
+
+static void evalChunk(const double *srcX, const double *srcY, int cs, int to) {
+  double a = fa, b = fb, c = fc, dd = fd;
+  int ce = cs + CHUNK < to ? cs + CHUNK : to;
+  double m[8] = { -INFINITY, -INFINITY, INFINITY, INFINITY, -INFINITY, -INFINITY, INFINITY, INFINITY };
+  for (int i = cs; i < ce; i++) {
+    double x = srcX[i], y = srcY[i];
+    double u = x * a + y * dd, v = x * b + y * c, s = u + v, d = u - v;
+    m[0] = u > m[0] ? u : m[0]; m[1] = v > m[1] ? v : m[1];
+    m[2] = u < m[2] ? u : m[2]; m[3] = v < m[3] ? v : m[3];
+    m[4] = s > m[4] ? s : m[4]; m[5] = d > m[5] ? d : m[5];
+    m[6] = s < m[6] ? s : m[6]; m[7] = d < m[7] ? d : m[7];
+  }
+  for (int e = 0; e < 8; e++) {
+    int better = (e & 2) ? m[e] < best[e] : m[e] > best[e];
+    if (better || (m[e] == best[e] && cs < bestChunk[e])) { best[e] = m[e]; bestChunk[e] = cs; }
+  }
+}
+
+static int firstWith(const double *srcX, const double *srcY, int cs, int to, int kind, double target) {
+  double a = fa, b = fb, c = fc, dd = fd;
+  int ce = cs + CHUNK < to ? cs + CHUNK : to;
+  for (int i = cs; i < ce; i++) {
+    double x = srcX[i], y = srcY[i];
+    double u = x * a + y * dd, v = x * b + y * c;
+    double val = kind == 0 ? u : kind == 1 ? u + v : kind == 2 ? v : u - v;
+    if (val == target) return i;
+  }
+  return cs < to ? cs : to - 1;
+}
+
 static void gatherGroup(const double *srcX, const double *srcY, int from, int to) {
   double a = fa, b = fb, c = fc, dd = fd;
-  double x = srcX[from], y = srcY[from];
-  double u0 = a * x + dd * y, v2 = b * x + c * y, s1v = u0 + v2, d7 = u0 - v2;
-  double u4 = u0, s5 = s1v, v6 = v2, d3 = d7;
-  int i0 = from, i1 = from, i2 = from, i3 = from, i4 = from, i5 = from, i6 = from, i7 = from;
-  double mxa = fabs(x), mya = fabs(y);
-  for (int i = from + 1; i < to; i++) {
-    x = srcX[i]; y = srcY[i];
-    double u = a * x + dd * y, v = b * x + c * y, s = u + v, d = u - v;
-    if (u > u0) { u0 = u; i0 = i; }
-    if (u < u4) { u4 = u; i4 = i; }
-    if (s > s1v) { s1v = s; i1 = i; }
-    if (s < s5) { s5 = s; i5 = i; }
-    if (v > v2) { v2 = v; i2 = i; }
-    if (v < v6) { v6 = v; i6 = i; }
-    if (d < d3) { d3 = d; i3 = i; }
-    if (d > d7) { d7 = d; i7 = i; }
-    double ax = fabs(x), ay = fabs(y);
-    mxa = ax > mxa ? ax : mxa;
-    mya = ay > mya ? ay : mya;
+  int guided = to - from >= GUIDED_MIN;
+  double gxl = INFINITY, gxh = -INFINITY, gyl = INFINITY, gyh = -INFINITY;
+  double bb[8] = { -INFINITY, -INFINITY, INFINITY, INFINITY, -INFINITY, -INFINITY, INFINITY, INFINITY };
+  int bc[8];
+  for (int e = 0; e < 8; e++) { best[e] = (e & 2) ? INFINITY : -INFINITY; bestChunk[e] = guided ? to : from; bc[e] = from; }
+  double *box = BOX, *bnd = BND;
+  for (int cs = from; cs < to; cs += CHUNK) {
+    int ce = cs + CHUNK < to ? cs + CHUNK : to;
+    double xl = INFINITY, xh = -INFINITY, yl = INFINITY, yh = -INFINITY;
+    for (int i = cs; i < ce; i++) {
+      double x = srcX[i], y = srcY[i];
+      xl = x < xl ? x : xl; xh = x > xh ? x : xh;
+      yl = y < yl ? y : yl; yh = y > yh ? y : yh;
+    }
+    box[0] = xl; box[1] = yl; box[2] = xh; box[3] = yh; box += 4;
+    gxl = xl < gxl ? xl : gxl; gxh = xh > gxh ? xh : gxh;
+    gyl = yl < gyl ? yl : gyl; gyh = yh > gyh ? yh : gyh;
+    if (!guided) { evalChunk(srcX, srcY, cs, to); continue; }
+    double u00 = xl * a + yl * dd, u10 = xh * a + yl * dd, u01 = xl * a + yh * dd, u11 = xh * a + yh * dd;
+    double v00 = xl * b + yl * c, v10 = xh * b + yl * c, v01 = xl * b + yh * c, v11 = xh * b + yh * c;
+    double uH = fmax(fmax(u00, u10), fmax(u01, u11)), uL = fmin(fmin(u00, u10), fmin(u01, u11));
+    double vH = fmax(fmax(v00, v10), fmax(v01, v11)), vL = fmin(fmin(v00, v10), fmin(v01, v11));
+    double q[8] = { uH, vH, uL, vL, uH + vH, uH + (-vL), uL + vL, uL + (-vH) };
+    for (int e = 0; e < 8; e++) {
+      bnd[e] = q[e];
+      if ((e & 2) ? q[e] < bb[e] : q[e] > bb[e]) { bb[e] = q[e]; bc[e] = cs; }
+    }
+    bnd += 8;
   }
-  int idx[8] = { i0, i1, i2, i3, i4, i5, i6, i7 };
-  for (int e = 0; e < 8; e++) { exs[e] = srcX[idx[e]]; eys[e] = srcY[idx[e]]; }
-  absX = mxa; absY = mya;
+  if (guided) {
+    for (int e = 0; e < 8; e++) evalChunk(srcX, srcY, bc[e], to);
+    bnd = BND;
+    for (int cs = from; cs < to; cs += CHUNK, bnd += 8) {
+      int any = 0;
+      for (int e = 0; e < 8; e++) any |= (e & 2) ? bnd[e] <= best[e] : bnd[e] >= best[e];
+      if (any) evalChunk(srcX, srcY, cs, to);
+    }
+  }
+  boxSrc = srcX; boxFrom = from; boxTo = to;
+  /* exs/eys order: max u, max u+v, max v, min u-v, min u, min u+v, min v, max u-v */
+  static const int dir[8] = { 0, 4, 1, 7, 2, 6, 3, 5 };
+  static const int kind[8] = { 0, 1, 2, 3, 0, 1, 2, 3 };
+  for (int e = 0; e < 8; e++) {
+    int i = firstWith(srcX, srcY, bestChunk[dir[e]], to, kind[e], best[dir[e]]);
+    exs[e] = srcX[i]; eys[e] = srcY[i];
+  }
+  absX = fmax(fabs(gxl), fabs(gxh));
+  absY = fmax(fabs(gyl), fabs(gyh));
 }
 
 static void append(const double *srcX, const double *srcY, int from, int to);
@@ -302,12 +371,26 @@ static void filterGroup(const double *srcX, const double *srcY, int from, int to
     A[e] = exx; B[e] = eyy; C[e] = c + eps;
   }
   int w = candCount;
-  for (int i = from; i < to; i++) {
-    double x = srcX[i], y = srcY[i];
-    int inside = A[0] * y - B[0] * x > C[0] && A[1] * y - B[1] * x > C[1] && A[2] * y - B[2] * x > C[2] &&
-      A[3] * y - B[3] * x > C[3] && A[4] * y - B[4] * x > C[4] && A[5] * y - B[5] * x > C[5] &&
-      A[6] * y - B[6] * x > C[6] && A[7] * y - B[7] * x > C[7];
-    if (!inside) { CX[w] = x; CY[w] = y; w++; }
+  int chunked = boxSrc == srcX && boxFrom == from && boxTo == to;
+  const double *box = BOX;
+  for (int cs = from; cs < to; cs += CHUNK, box += 4) {
+    int ce = cs + CHUNK < to ? cs + CHUNK : to;
+    if (chunked) {
+      /* The 4 corners of the chunk's box pass the test: so does every point of the chunk. */
+      int all = 1;
+      for (int q = 0; q < 4 && all; q++) {
+        double x = box[(q & 1) ? 2 : 0], y = box[(q & 2) ? 3 : 1];
+        for (int e = 0; e < 8; e++) all &= A[e] * y - B[e] * x > C[e];
+      }
+      if (all) continue;
+    }
+    for (int i = cs; i < ce; i++) {
+      double x = srcX[i], y = srcY[i];
+      int inside = A[0] * y - B[0] * x > C[0] && A[1] * y - B[1] * x > C[1] && A[2] * y - B[2] * x > C[2] &&
+        A[3] * y - B[3] * x > C[3] && A[4] * y - B[4] * x > C[4] && A[5] * y - B[5] * x > C[5] &&
+        A[6] * y - B[6] * x > C[6] && A[7] * y - B[7] * x > C[7];
+      if (!inside) { CX[w] = x; CY[w] = y; w++; }
+    }
   }
   candCount = w;
 }
@@ -407,6 +490,7 @@ static void setupKernel(int k, int *gr, int g) {
   K = k; G = g; grid = gr; N = gr[g - 1];
   size_t pts = (size_t)k * (N + 1), cand = 2 * pts + 8;
   PX = allocD(pts); PY = allocD(pts); NZ = allocD(2 * (size_t)N);
+  BOX = allocD(4 * (cand / CHUNK + 2)); BND = allocD(8 * (cand / CHUNK + 2));
   CX = allocD(cand); CY = allocD(cand); HX = allocD(2 * cand + 2); HY = allocD(2 * cand + 2);
   SEG = allocD(5 * (size_t)g * k);
 }
