@@ -31,6 +31,20 @@ describe("WASM == twin", () => {
     const { twin, wasm } = kernels(laws, [10, 1000, 3000], 9);
     for (const block of [0, 1, 63]) expect(maxRel(twin.runBlock(block, 6), wasm.runBlock(block, 6))).toBe(0);
   });
+  it("long grid segments (>= 2048 new points per walk: the chunk-bound extremes search) agree bit for bit", () => {
+    const drifting: StepLaw[] = [
+      { law: "gaussian", mean: [1, 0], cov: [[1, 0], [0, 1]] },
+      { law: "gaussian", mean: [0, 1], cov: [[1, 0.3], [0.3, 0.5]] },
+      { law: "gaussian", mean: [-0.7, -0.2], cov: [[0.5, 0], [0, 2]] },
+      { law: "gaussian", mean: [0, 0], cov: [[1, 0], [0, 1]] },
+    ];
+    for (const k of [1, 2, 4]) {
+      for (const grid of [[5000], [100, 6000]]) {
+        const { twin, wasm } = kernels(drifting.slice(0, k), grid, 2718);
+        expect(maxRel(twin.runBlock(1, 4), wasm.runBlock(1, 4))).toBe(0);
+      }
+    }
+  });
   it("runBlock splits into chunks without changing the stream (more paths than one chunk)", () => {
     const { twin, wasm } = kernels([SAMPLE_LAWS.discrete], [5], 4);
     expect(maxRel(twin.runBlock(2, 700), wasm.runBlock(2, 700))).toBe(0);
