@@ -263,7 +263,10 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
   for (const measure of suite.measure) {
     const pred = predFor(measure);
     getExtrapolation(measure, "varianceLimit", pred?.varianceScaling ?? 1);
-    getExtrapolation(measure, "meanGrowth", pred?.meanScaling ?? 1);
+    // A power 0 would extrapolate E X_n itself: no measure has a finite mean limit (the vertex
+    // count grows like log n), so no such "limit" is shown unless a claim asks for it.
+    const q = pred?.meanScaling ?? 1;
+    if (q > 0) getExtrapolation(measure, "meanGrowth", q);
   }
   const limits: LimitEstimate[] = limitsOrder.map((k) => extrapolations.get(k)!.limit);
 
