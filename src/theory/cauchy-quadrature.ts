@@ -225,8 +225,8 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
   const total = kept.map(() => 0), angErr = kept.map(() => 0), recErr = kept.map(() => 0);
   let angles = 0;
   let active = kept.length; // kept[0..active) are still being computed
-  const loopStart = performance.now();
   panels.forEach(([a, b], pi) => {
+    const panelStart = performance.now();
     const half = (b - a) / 2, mid = (a + b) / 2;
     const ks = kept.slice(0, active);
     const fine = ks.map(() => 0), crude = ks.map(() => 0);
@@ -246,10 +246,12 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
       total[q] += fine[q];
       angErr[q] += Math.abs(fine[q] - crude[q]);
     }
-    // Projected time at the current pace: drop the largest n while it would overrun the budget.
-    const pace = secondsSince(loopStart) / (pi + 1);
+    // Projected time at the pace of this panel: drop the largest n while it would overrun the
+    // budget; each drop rescales the pace by the cost ratio (about n^1.5, as in `estimate`).
+    let pace = secondsSince(panelStart);
     while (active > 1 && secondsSince(start) + pace * (panels.length - pi - 1) > budget) {
       active--;
+      pace *= Math.pow(kept[active - 1] / kept[active], 1.5);
       reasons.push(`perimeter of ${walks.length} walks at n = ${kept[active]}: Cauchy quadrature stopped (time budget ${budget} s)`);
     }
   });
