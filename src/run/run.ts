@@ -69,6 +69,7 @@ export async function runSuite(suite: LoadedSuite, opts: RunOptions = {}): Promi
     process.on("SIGTERM", handlers.SIGTERM);
   }
   let lastSave = performance.now();
+  let lastSaveCost = 0;
   const every = (opts.checkpointEverySeconds ?? 5) * 1000;
   try {
     const outcome = await runBlocks(suite, {
@@ -82,9 +83,12 @@ export async function runSuite(suite: LoadedSuite, opts: RunOptions = {}): Promi
       onBlock: () => {
         progress.update();
         if (opts.stopAfterBlocks !== undefined && collector.blocks.size >= opts.stopAfterBlocks) stopReason ??= "stop-after-blocks";
-        if (checkpoint && performance.now() - lastSave >= every) {
+        // At most every few seconds, and never more than ~5% of the run's time in checkpoints.
+        if (checkpoint && performance.now() - lastSave >= Math.max(every, 20 * lastSaveCost)) {
+          const t = performance.now();
           save();
           lastSave = performance.now();
+          lastSaveCost = lastSave - t;
         }
       },
     });
