@@ -13,6 +13,7 @@
 //   the runs are positively correlated and the test is conservative.
 // Rows present in only one report are listed, not compared; the caller treats that as bad input.
 
+import type { ResultRecord } from "../run/types.js";
 import { holm } from "../stats/holm.js";
 import { twoSidedNormalP } from "../stats/normal.js";
 import { sig, textTable } from "./table.js";
@@ -31,16 +32,11 @@ export class DiffInputError extends Error {
 }
 
 /** The part of a report that diff reads (checked by `readDiffInput`). */
-export interface DiffRow {
+export type DiffRow = Pick<ResultRecord, "n" | "paths" | "mean" | "meanSE" | "variance" | "varianceSE"> & {
+  /** A string here: a report from another version may name a measure this one does not know. */
   measure: string;
-  n: number;
-  paths: number;
-  mean: number;
-  meanSE: number;
-  variance: number;
-  varianceSE: number;
   [k: string]: unknown;
-}
+};
 export interface DiffInput {
   seed: number | null;
   suiteHash: string | null;
