@@ -83,8 +83,8 @@ export async function runSuite(suite: LoadedSuite, opts: RunOptions = {}): Promi
       onBlock: () => {
         progress.update();
         if (opts.stopAfterBlocks !== undefined && collector.blocks.size >= opts.stopAfterBlocks) stopReason ??= "stop-after-blocks";
-        // At most every few seconds, and never more than ~5% of the run's time in checkpoints.
-        if (checkpoint && performance.now() - lastSave >= Math.max(every, 20 * lastSaveCost)) {
+        // At most every few seconds, and never more than ~2% of the run's time in checkpoints.
+        if (checkpoint && performance.now() - lastSave >= Math.max(every, 50 * lastSaveCost)) {
           const t = performance.now();
           save();
           lastSave = performance.now();
