@@ -5,5 +5,6 @@ export default defineConfig({
     testTimeout: 120_000,
     hookTimeout: 120_000,
     pool: "forks",
+    reporters: ["default", "./test/summary-reporter.ts"],
   },
 });
