@@ -81,6 +81,19 @@ describe("walkhull CLI", () => {
     });
   }
 
+  it("predict and plan reach the same clear errors as run (exit 2, same message)", () => {
+    for (const [, suite, pattern] of bad) {
+      const { file } = suiteFile(suite);
+      const run = cli(["run", file]);
+      expect(run.stderr).toMatch(pattern);
+      for (const args of [["predict", file], ["predict", file, "--json"], ["plan", file, "--target-se", "0.1"]]) {
+        const r = cli(args);
+        expect(r.status, args.join(" ")).toBe(2);
+        expect(r.stderr).toBe(run.stderr);
+      }
+    }
+  });
+
   it("usage errors exit 2", () => {
     expect(cli(["frobnicate"]).status).toBe(2);
     expect(cli(["run"]).status).toBe(2);
