@@ -9,7 +9,7 @@ import { PROJECT_ROOT, toolVersion } from "../version.js";
 import type { SimulationResult, BlockStats, ResultRecord } from "../run/types.js";
 import type { Prediction } from "../theory/types.js";
 import type { LoadedSuite } from "../suite/schema.js";
-import { mergeBlocks } from "../run/blocks.js";
+import { mergeBlockComoments } from "../run/blocks.js";
 import { covarianceMatrix } from "../stats/moments.js";
 import { KERNEL_MEASURES, MEASURES_PER_RECORD } from "../engine/types.js";
 
@@ -51,11 +51,10 @@ export interface Report {
   exitCode?: number;
 }
 
-const ROOT = PROJECT_ROOT;
 
 function gitCommit(): string | null {
   try {
-    return execFileSync("git", ["rev-parse", "HEAD"], { cwd: ROOT, stdio: ["ignore", "pipe", "ignore"] }).toString().trim();
+    return execFileSync("git", ["rev-parse", "HEAD"], { cwd: PROJECT_ROOT, stdio: ["ignore", "pipe", "ignore"] }).toString().trim();
   } catch {
     return null;
   }
@@ -63,7 +62,7 @@ function gitCommit(): string | null {
 
 function wasmHash(): string | null {
   try {
-    return createHash("sha256").update(readFileSync(ROOT + "build/walkhull.wasm")).digest("hex");
+    return createHash("sha256").update(readFileSync(PROJECT_ROOT + "build/walkhull.wasm")).digest("hex");
   } catch {
     return null;
   }
@@ -97,7 +96,7 @@ export function provenance(sim: SimulationResult, startedAt: Date): Provenance {
 
 export function measureCovariance(sim: SimulationResult): Report["covariance"] {
   if (sim.blocks.length === 0) return [];
-  const { comoments } = mergeBlocks(sim.blocks);
+  const comoments = mergeBlockComoments(sim.blocks);
   const cov = covarianceMatrix(comoments);
   const dim = comoments.dim;
   const idx = sim.suite.measure.map((m) => KERNEL_MEASURES.indexOf(m));

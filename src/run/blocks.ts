@@ -53,16 +53,25 @@ export function summarizeBlock(
   return { stats: { block, firstPath, paths: pathCount, moments, comoments }, kept, min, max };
 }
 
-/** Merge block statistics in block order (the fixed order makes the result independent of workers). */
-export function mergeBlocks(blocks: BlockStats[]): { moments: BlockStats["moments"]; comoments: BlockStats["comoments"] } {
-  const sorted = [...blocks].sort((a, b) => a.block - b.block);
+/** Blocks in block order: the fixed merge order makes results independent of workers. */
+function inBlockOrder(blocks: BlockStats[]): BlockStats[] {
+  return [...blocks].sort((a, b) => a.block - b.block);
+}
+
+/** Moment sums of all blocks, merged in block order. */
+export function mergeBlockMoments(blocks: BlockStats[]): BlockStats["moments"] {
+  const sorted = inBlockOrder(blocks);
   let moments = sorted[0].moments;
+  for (let i = 1; i < sorted.length; i++) moments = moments.map((m, j) => mergeMoments(m, sorted[i].moments[j]));
+  return moments;
+}
+
+/** Co-moment sums of all blocks, merged in block order. */
+export function mergeBlockComoments(blocks: BlockStats[]): BlockStats["comoments"] {
+  const sorted = inBlockOrder(blocks);
   let comoments = sorted[0].comoments;
-  for (let i = 1; i < sorted.length; i++) {
-    moments = moments.map((m, j) => mergeMoments(m, sorted[i].moments[j]));
-    comoments = mergeCoMoments(comoments, sorted[i].comoments);
-  }
-  return { moments, comoments };
+  for (let i = 1; i < sorted.length; i++) comoments = mergeCoMoments(comoments, sorted[i].comoments);
+  return comoments;
 }
 
 /**

@@ -4,9 +4,7 @@
 import { existsSync, readFileSync, renameSync, writeFileSync } from "node:fs";
 import type { LoadedSuite } from "../suite/schema.js";
 import { MEASURES_PER_RECORD } from "../engine/types.js";
-import type { KeptCandidates } from "./blocks.js";
-import { blockFromJson, blockToJson, keptFromJson, keptToJson, type BlockStatsJson, type KeptJson } from "./state.js";
-import type { BlockStats } from "./types.js";
+import { runStateFromJson, runStateToJson, type RunState, type RunStateJson } from "./state.js";
 
 export const CHECKPOINT_FORMAT = "walkhull-checkpoint/1";
 
@@ -15,7 +13,7 @@ export interface ShardSpec {
   count: number;
 }
 
-interface CheckpointJson {
+interface CheckpointJson extends RunStateJson {
   format: string;
   version: string;
   suiteHash: string;
@@ -23,18 +21,7 @@ interface CheckpointJson {
   paths: number;
   blockCount: number;
   shard: ShardSpec | null;
-  blocks: BlockStatsJson[];
-  kept: KeptJson;
-  min: (number | null)[];
-  max: (number | null)[];
   writtenAt: string;
-}
-
-export interface CheckpointState {
-  blocks: BlockStats[];
-  kept: KeptCandidates;
-  min: number[];
-  max: number[];
 }
 
 export class CheckpointError extends Error {}
@@ -45,7 +32,7 @@ export function writeCheckpoint(
   version: string,
   blockCount: number,
   shard: ShardSpec | null,
-  state: CheckpointState,
+  state: RunState,
 ): void {
   const j: CheckpointJson = {
     format: CHECKPOINT_FORMAT,
@@ -55,10 +42,7 @@ export function writeCheckpoint(
     paths: suite.paths,
     blockCount,
     shard,
-    blocks: state.blocks.map(blockToJson),
-    kept: keptToJson(state.kept),
-    min: state.min.map((x) => (Number.isFinite(x) ? x : null)),
-    max: state.max.map((x) => (Number.isFinite(x) ? x : null)),
+    ...runStateToJson(state),
     writtenAt: new Date().toISOString(),
   };
   const tmp = `${path}.tmp-${process.pid}`;
@@ -73,7 +57,7 @@ export function readCheckpoint(
   version: string,
   blockCount: number,
   shard: ShardSpec | null,
-): CheckpointState {
+): RunState {
   if (!existsSync(path)) throw new CheckpointError(`--resume: no checkpoint at ${path}`);
   let j: CheckpointJson;
   try {
@@ -91,22 +75,13 @@ export function readCheckpoint(
   if (!sameShard) throw refuse(`is for shard ${j.shard ? `${j.shard.index}/${j.shard.count}` : "none"}, this run ${shard ? `${shard.index}/${shard.count}` : "none"}`);
   const dim = suite.n.length * MEASURES_PER_RECORD;
   try {
-    if (!Array.isArray(j.blocks) || !Array.isArray(j.min) || !Array.isArray(j.max) || j.min.length !== dim || j.max.length !== dim) {
-      throw new Error("missing blocks or extremes");
-    }
-    const blocks = j.blocks.map((b) => blockFromJson(b, `checkpoint ${path}`));
+    const state = runStateFromJson(j, dim, `checkpoint ${path}`);
     const seen = new Set<number>();
-    for (const b of blocks) {
+    for (const b of state.blocks) {
       if (b.block < 0 || b.block >= blockCount || seen.has(b.block)) throw new Error(`bad or repeated block index ${b.block}`);
-      if (b.moments.length !== dim) throw new Error(`block ${b.block} has ${b.moments.length} moment records, expected ${dim}`);
       seen.add(b.block);
     }
-    return {
-      blocks,
-      kept: keptFromJson(j.kept, dim, `checkpoint ${path}`),
-      min: j.min.map((x) => (x === null ? Infinity : x)),
-      max: j.max.map((x) => (x === null ? -Infinity : x)),
-    };
+    return state;
   } catch (e) {
     throw new CheckpointError(`checkpoint ${path} is corrupted or partial (${(e as Error).message}); delete it to start afresh`);
   }

@@ -11,12 +11,12 @@ import { mergeKept } from "./blocks.js";
 import type { ShardSpec } from "./checkpoint.js";
 import { shardBlocks } from "./run.js";
 import { BlockCollector } from "./simulate.js";
-import { blockFromJson, blockToJson, keptFromJson, keptToJson, type BlockStatsJson, type KeptJson } from "./state.js";
+import { runStateFromJson, runStateToJson, type RunState, type RunStateJson } from "./state.js";
 import type { ResultRecord, SimulationResult } from "./types.js";
 
 export const SHARD_FORMAT = "walkhull-shard/1";
 
-export interface ShardFileJson {
+export interface ShardFileJson extends RunStateJson {
   format: string;
   version: string;
   suite: LoadedSuite;
@@ -29,16 +29,11 @@ export interface ShardFileJson {
   workers: number;
   /** The shard's own results (partial: only its blocks). */
   results: ResultRecord[];
-  blocks: BlockStatsJson[];
-  kept: KeptJson;
-  min: (number | null)[];
-  max: (number | null)[];
 }
 
 export class MergeError extends Error {}
 
 export function shardFile(sim: SimulationResult, collector: BlockCollector, shard: ShardSpec, startedAt: Date): ShardFileJson {
-  const snap = collector.snapshot();
   return {
     format: SHARD_FORMAT,
     version: toolVersion(),
@@ -51,10 +46,7 @@ export function shardFile(sim: SimulationResult, collector: BlockCollector, shar
     wallSeconds: sim.wallSeconds,
     workers: sim.workers,
     results: sim.results,
-    blocks: snap.blocks.map(blockToJson),
-    kept: keptToJson(snap.kept),
-    min: snap.min.map((x) => (Number.isFinite(x) ? x : null)),
-    max: snap.max.map((x) => (Number.isFinite(x) ? x : null)),
+    ...runStateToJson(collector.snapshot()),
   };
 }
 
@@ -105,15 +97,20 @@ export function mergeShardFiles(files: string[], version: string): SimulationRes
   let workers = 0;
   for (const s of shards) {
     const where = s.file;
-    const own = new Set(shardBlocks(s.j.blockCount, s.j.shard));
-    const bs = (s.j.blocks ?? []).map((b) => blockFromJson(b, where));
-    if (bs.length !== own.size || bs.some((b) => !own.has(b.block))) {
-      throw new MergeError(`${where}: holds blocks [${bs.map((b) => b.block).join(", ")}] but shard ${s.j.shard.index}/${count} must hold [${[...own].join(", ")}] (incomplete shard?)`);
+    let st: RunState;
+    try {
+      st = runStateFromJson(s.j, dim, where);
+    } catch (e) {
+      throw new MergeError(`${where}: malformed shard result (${(e as Error).message})`);
     }
-    blocks.push(...bs);
-    keptSets.push(keptFromJson(s.j.kept, dim, where));
-    s.j.min.forEach((x, i) => (min[i] = Math.min(min[i], x ?? Infinity)));
-    s.j.max.forEach((x, i) => (max[i] = Math.max(max[i], x ?? -Infinity)));
+    const own = new Set(shardBlocks(s.j.blockCount, s.j.shard));
+    if (st.blocks.length !== own.size || st.blocks.some((b) => !own.has(b.block))) {
+      throw new MergeError(`${where}: holds blocks [${st.blocks.map((b) => b.block).join(", ")}] but shard ${s.j.shard.index}/${count} must hold [${[...own].join(", ")}] (incomplete shard?)`);
+    }
+    blocks.push(...st.blocks);
+    keptSets.push(st.kept);
+    st.min.forEach((x, i) => (min[i] = Math.min(min[i], x)));
+    st.max.forEach((x, i) => (max[i] = Math.max(max[i], x)));
     wall = Math.max(wall, s.j.wallSeconds);
     workers += s.j.workers;
   }

@@ -9,8 +9,9 @@ import { KERNEL_MEASURES, MEASURES_PER_RECORD } from "../engine/types.js";
 import { summarize } from "../stats/moments.js";
 import { blockCount, blockRange } from "../suite/load.js";
 import type { LoadedSuite, Suite } from "../suite/schema.js";
-import { keptToSample, MAX_KEPT, mergeBlocks, mergeKept, summarizeBlock, type BlockOutput, type KeptCandidates } from "./blocks.js";
+import { keptToSample, MAX_KEPT, mergeBlockMoments, mergeKept, summarizeBlock, type BlockOutput, type KeptCandidates } from "./blocks.js";
 import type { BlockStats, ResultRecord, SimulationResult } from "./types.js";
+import type { RunState } from "./state.js";
 
 export type KernelKind = "wasm" | "twin";
 
@@ -66,7 +67,7 @@ export class BlockCollector {
   }
 
   /** Start from a checkpoint's state (blocks done, kept candidates, extremes). */
-  restore(state: { blocks: BlockStats[]; kept: KeptCandidates; min: number[]; max: number[] }): void {
+  restore(state: RunState): void {
     for (const b of state.blocks) {
       if (this.blocks.has(b.block)) throw new Error(`block ${b.block} restored twice`);
       this.blocks.set(b.block, b);
@@ -78,7 +79,7 @@ export class BlockCollector {
   }
 
   /** The state to write into a checkpoint or a shard file. */
-  snapshot(): { blocks: BlockStats[]; kept: KeptCandidates; min: number[]; max: number[] } {
+  snapshot(): RunState {
     return { blocks: [...this.blocks.values()].sort((a, b) => a.block - b.block), kept: this.compactKept(), min: this.min, max: this.max };
   }
 
@@ -101,7 +102,7 @@ export class BlockCollector {
 /** The `results` rows: one per measure of the suite and n of its grid, from block-ordered merges. */
 export function resultRecords(suite: Suite, blocks: BlockStats[], min: number[], max: number[]): ResultRecord[] {
   if (blocks.length === 0) return [];
-  const { moments } = mergeBlocks(blocks);
+  const moments = mergeBlockMoments(blocks);
   const rows: ResultRecord[] = [];
   for (const measure of suite.measure) {
     const m = KERNEL_MEASURES.indexOf(measure);

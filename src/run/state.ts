@@ -77,3 +77,45 @@ export function keptFromJson(j: KeptJson, dim: number, where: string): KeptCandi
   }
   return k;
 }
+
+/** What a checkpoint or a shard file holds of a run: its blocks, kept candidates and extremes. */
+export interface RunState {
+  blocks: BlockStats[];
+  kept: KeptCandidates;
+  min: number[];
+  max: number[];
+}
+
+export interface RunStateJson {
+  blocks: BlockStatsJson[];
+  kept: KeptJson;
+  /** Extremes per [gridIndex*4+measure]; null stands for an infinite (empty) extreme. */
+  min: (number | null)[];
+  max: (number | null)[];
+}
+
+export function runStateToJson(s: RunState): RunStateJson {
+  return {
+    blocks: s.blocks.map(blockToJson),
+    kept: keptToJson(s.kept),
+    min: s.min.map((x) => (Number.isFinite(x) ? x : null)),
+    max: s.max.map((x) => (Number.isFinite(x) ? x : null)),
+  };
+}
+
+/** Read a run state of `dim` values per path; errors say what is missing or malformed. */
+export function runStateFromJson(j: RunStateJson, dim: number, where: string): RunState {
+  if (!Array.isArray(j.blocks) || !Array.isArray(j.min) || !Array.isArray(j.max) || j.min.length !== dim || j.max.length !== dim) {
+    throw new Error("missing blocks or extremes");
+  }
+  const blocks = j.blocks.map((b) => blockFromJson(b, where));
+  for (const b of blocks) {
+    if (b.moments.length !== dim) throw new Error(`block ${b.block} has ${b.moments.length} moment records, expected ${dim}`);
+  }
+  return {
+    blocks,
+    kept: keptFromJson(j.kept, dim, where),
+    min: j.min.map((x) => (x === null ? Infinity : x)),
+    max: j.max.map((x) => (x === null ? -Infinity : x)),
+  };
+}
