@@ -34,6 +34,9 @@ export const BYTES_PER_POINT = 112;
 export const MAX_PATHS = 2 ** 40;
 export const DEFAULT_BLOCKS = 64;
 export const MIN_BLOCKS = 32;
+/** Fewest paths a suite may ask for: one per block of the smallest block count, so the block
+ *  jackknife always has MIN_BLOCKS blocks (fewer paths cannot give a standard error). */
+export const MIN_PATHS = MIN_BLOCKS;
 const MAX_WALKS = 64;
 const MAX_ATOMS = 1 << 20;
 
@@ -127,8 +130,8 @@ export function validateSuite(raw: unknown, opts: ValidateOptions = {}): LoadedS
   }
 
   const pathsRaw = opts.overrides?.paths ?? o.paths;
-  if (pathsRaw === undefined) throw new SuiteError("paths", "missing (a positive integer; or pass --paths)");
-  const paths = asInteger(pathsRaw, "paths", 1, MAX_PATHS);
+  if (pathsRaw === undefined) throw new SuiteError("paths", `missing (an integer >= ${MIN_PATHS}; or pass --paths)`);
+  const paths = asInteger(pathsRaw, "paths", MIN_PATHS, MAX_PATHS);
 
   const suite: Suite = { title, seed, walks, measure, n, paths };
   if (o.description !== undefined) suite.description = asString(o.description, "description");

@@ -197,7 +197,8 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
     } else if (law === "non-normal") {
       const persists = ev.skewPersistence !== null && ev.skewPersistence.pValue <= alpha;
       const visible = d.pValue <= alpha || skewGrows || persists;
-      const how = d.pValue <= alpha || skewGrows
+      // Only read skewPersistence when it decided the verdict: it is null with one n on the grid.
+      const how = d.pValue <= alpha || skewGrows || !persists
         ? "normality is rejected at the effect-size level (distance above tolerance, or growing skewness)"
         : `|skewness| does not decay at the n^-1/2 rate of a normal limit (first Edgeworth term, common practice): one-sided z = ${fmt(ev.skewPersistence!.z, 3)} against |g1(n_min)| sqrt(n_min/n_max), p <= ${alpha}; the finite-n distance is still below the tolerance`;
       add(

@@ -67,7 +67,8 @@ describe("walkhull CLI", () => {
     ["weights not summing to 1", { walks: [{ law: "discrete", atoms: [[1, 0]], weights: [0.9] }] }, /walks\[0\]\.weights: must sum to 1/],
     ["dof <= 2", { walks: [{ law: "student", mean: [0, 0], scale: [[1, 0], [0, 1]], dof: 1.5 }] }, /walks\[0\]\.dof: must be > 2/],
     ["n not increasing", { n: [20, 10] }, /n\[1\]: must be larger/],
-    ["paths <= 0", { paths: -5 }, /paths: must be >= 1/],
+    ["paths <= 0", { paths: -5 }, /paths: must be >= 32/],
+    ["one path (used to end in an internal error, exit 70)", { paths: 1 }, /^walkhull: paths: must be >= 32 \(got 1\)/],
     ["absurd sizes", { n: [10, 500000000] }, /n: largest n = 500000000 .*GiB per worker/],
   ];
   for (const [name, suite, pattern] of bad) {
@@ -92,6 +93,24 @@ describe("walkhull CLI", () => {
         expect(r.stderr).toBe(run.stderr);
       }
     }
+  });
+
+  it("one n and two circle-step walks: the law checks run (no internal error on a single-n grid)", () => {
+    // Regression: the non-normal law check read the skewness-persistence test, which needs two n.
+    const { dir, file } = suiteFile({
+      walks: [{ law: "circle", mean: [1, 0], radius: 1 }, { law: "circle", mean: [0, 1], radius: 1 }],
+      measure: ["perimeter", "diameter", "area", "vertices"],
+      n: [100],
+      paths: 256,
+    });
+    const out = join(dir, "r.json");
+    const r = cli(["run", file, "--out", out, "--quiet", "--workers", "1"]);
+    expect(r.stderr).not.toMatch(/internal error/);
+    expect([0, 1]).toContain(r.status);
+    const rep = JSON.parse(readFileSync(out, "utf8"));
+    const law = rep.checks.find((c: { id: string }) => c.id === "area.limitLaw.prediction");
+    expect(law.expected).toBe("non-normal");
+    expect(law.detail).toMatch(/skewness trend not assessable with one n/);
   });
 
   it("usage errors exit 2", () => {

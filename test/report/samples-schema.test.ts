@@ -56,7 +56,7 @@ describe("JSON Schemas", () => {
   });
 
   it("the suite schema rejects what the loader rejects: unknown fields, missing law fields, bad claims", () => {
-    const good = { seed: 1, walks: [{ law: "gaussian", mean: [1, 0], cov: [[1, 0], [0, 1]] }], measure: ["perimeter"], n: [10], paths: 10 };
+    const good = { seed: 1, walks: [{ law: "gaussian", mean: [1, 0], cov: [[1, 0], [0, 1]] }], measure: ["perimeter"], n: [10], paths: 32 };
     expect(suiteSchema(good)).toBe(true);
     expect(suiteSchema({ ...good, pathz: 3 })).toBe(false);
     expect(suiteSchema({ ...good, walks: [{ law: "gaussian", mean: [1, 0] }] })).toBe(false);
@@ -66,6 +66,7 @@ describe("JSON Schemas", () => {
     expect(suiteSchema({ ...good, claims: [{ measure: "perimeter", n: 10 }] })).toBe(false);
     expect(suiteSchema({ ...good, claims: [{ measure: "perimeter", n: 10, mean: 3 }] })).toBe(true);
     expect(suiteSchema({ ...good, blocks: 8 })).toBe(false);
+    expect(suiteSchema({ ...good, paths: 31 })).toBe(false);
   });
 
   it("a real report (with checks, limits and predictions) is valid; a renamed contract field is not", () => {
