@@ -5,6 +5,7 @@ export {
   setup,
   setWalk,
   seedBlock,
+  setDrift,
   runPaths,
   pointsXPtr,
   pointsYPtr,

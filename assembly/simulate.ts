@@ -22,6 +22,8 @@ let SX: usize = 0, SY: usize = 0, NZ: usize = 0; // step scratch
 let CX: usize = 0, CY: usize = 0; // candidates
 let HX: usize = 0, HY: usize = 0; // hull
 let SEG: usize = 0; // f64[K * G * 5] per walk, cumulative sums x, y, xx, xy, yy up to n_g
+let MU: usize = 0; // f64[2 * K]: each walk's exact step mean (for the centred controls)
+let CTL: usize = 0; // f64[G * 4 * K]: scratch controls record of one path (bench entry points)
 let EDGES: usize = 0; // f64[8 * 3]
 let BOX: usize = 0; // f64[4 * chunks]: per chunk of the last gathered group, min x, min y, max x, max y
 let BND: usize = 0; // f64[8 * chunks]: per chunk, bounds on u, v, u + v, u - v (gatherGroup)
@@ -61,6 +63,8 @@ export function setup(k: i32, grid: usize, g: i32): void {
   HX = allocF64(2 * candCap + 2);
   HY = allocF64(2 * candCap + 2);
   SEG = allocF64(5 * g * k);
+  MU = allocF64(2 * k);
+  CTL = allocF64(4 * g * k);
   EDGES = allocF64(24);
   BOX = allocF64(4 * (candCap / CHUNK + 2));
   BND = allocF64(8 * (candCap / CHUNK + 2));
@@ -69,6 +73,12 @@ export function setup(k: i32, grid: usize, g: i32): void {
 export function setWalk(j: i32, code: i32, params: usize): void {
   store<i32>(codesPtr + (<usize>j << 2), code);
   store<usize>(paramsPtr + (<usize>j << 3), params);
+}
+
+/** The exact step mean of walk j: the controls are centred with it (their means are then 0). */
+export function setDrift(j: i32, mx: f64, my: f64): void {
+  store<f64>(MU + (<usize>(2 * j) << 3), mx);
+  store<f64>(MU + (<usize>(2 * j + 1) << 3), my);
 }
 
 export function seedBlock(seed: u64, block: u64): void {
@@ -658,12 +668,36 @@ function filterRotated(): void {
 }
 
 /**
- * Simulates one path; writes G * 4 values (perimeter, diameter, area, vertices per grid n).
+ * Writes the control values of grid point g (step count n = hi) for every walk j into ctl:
+ * the centred endpoint X = S_n - n mu and the centred integrated path Y = sum_{i<=n} S_i -
+ * mu n(n+1)/2 (both with mean 0 exactly; their covariances follow from the step covariance),
+ * laid out [g][walk][Xx, Xy, Yx, Yy].
+ */
+function writeControls(ctl: usize, g: i32, hi: i32): void {
+  const stride = N + 1;
+  const fn = <f64>hi;
+  const tri = 0.5 * fn * (fn + 1.0);
+  for (let j = 0; j < K; j++) {
+    const mx = load<f64>(MU + (<usize>(2 * j) << 3));
+    const my = load<f64>(MU + (<usize>(2 * j + 1) << 3));
+    const at = <usize>(j * stride + hi) << 3;
+    const o = SEG + (<usize>(5 * (j * G + g)) << 3);
+    const r = ctl + (<usize>(4 * (g * K + j)) << 3);
+    store<f64>(r, load<f64>(PX + at) - fn * mx);
+    store<f64>(r + 8, load<f64>(PY + at) - fn * my);
+    store<f64>(r + 16, load<f64>(o) - tri * mx);
+    store<f64>(r + 24, load<f64>(o + 8) - tri * my);
+  }
+}
+
+/**
+ * Simulates one path; writes G * 4 values (perimeter, diameter, area, vertices per grid n) into
+ * out and G * 4 * K control values (writeControls) into ctl.
  * Each walk's new points are filtered against the polygon of their own extremes, in the frame
  * of that walk's own cloud (so k needles pointing different ways are each filtered well): a point
  * strictly inside one walk's hull is strictly inside the hull of all walks.
  */
-export function runPath(out: usize): void {
+export function runPath(out: usize, ctl: usize): void {
   generateWalks();
   const stride = N + 1;
   let prev = 0;
@@ -688,14 +722,16 @@ export function runPath(out: usize): void {
     store<f64>(r + 8, diameter(HX, HY, h));
     store<f64>(r + 16, area(HX, HY, h));
     store<f64>(r + 24, <f64>h);
+    writeControls(ctl, g, hi);
     prev = hi;
   }
 }
 
-/** Runs `count` paths of the current block stream into out (count * G * 4 f64). */
-export function runPaths(count: i32, out: usize): void {
+/** Runs `count` paths of the current block stream into out (count * G * 4 f64) and ctl (count * G * 4K f64). */
+export function runPaths(count: i32, out: usize, ctl: usize): void {
   const rec = <usize>(G * 4) << 3;
-  for (let p = 0; p < count; p++) runPath(out + <usize>p * rec);
+  const crec = <usize>(G * 4 * K) << 3;
+  for (let p = 0; p < count; p++) runPath(out + <usize>p * rec, ctl + <usize>p * crec);
 }
 
 export function pointsXPtr(): usize { return PX; }

@@ -52,8 +52,38 @@ export function aliasTable(weights: readonly number[]): { prob: Float64Array; al
   return { prob, alias };
 }
 
+/**
+ * The exact step mean of a law (the controls are centred with it): the given mean for gaussian,
+ * circle and student laws (student: NaN when dof <= 1, no mean), sum w_i a_i for a discrete law,
+ * the row mean of an empirical law.
+ */
+export function stepMean(law: StepLaw): [number, number] {
+  switch (law.law) {
+    case "gaussian":
+    case "circle":
+      return [law.mean[0], law.mean[1]];
+    case "student":
+      return law.dof > 1 ? [law.mean[0], law.mean[1]] : [NaN, NaN];
+    case "discrete": {
+      let mx = 0, my = 0;
+      law.atoms.forEach((a, i) => { mx += law.weights[i] * a[0]; my += law.weights[i] * a[1]; });
+      return [mx, my];
+    }
+    case "empirical": {
+      const steps = law.steps ?? [];
+      let mx = 0, my = 0;
+      for (const s of steps) { mx += s[0]; my += s[1]; }
+      return [mx / steps.length, my / steps.length];
+    }
+  }
+}
+
 /** Packs one step law for the kernels. */
 export function compileWalk(law: StepLaw): CompiledWalk {
+  return { ...packLaw(law), mean: stepMean(law) };
+}
+
+function packLaw(law: StepLaw): Omit<CompiledWalk, "mean"> {
   switch (law.law) {
     case "gaussian": {
       const [l11, l21, l22] = choleskyPsd2(law.cov);

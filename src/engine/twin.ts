@@ -3,7 +3,7 @@
 // exp/log/cos/sin/pow between V8 and AssemblyScript's math library; see ./prng.ts). It is the
 // oracle of the kernel tests and the JS baseline of the bench.
 
-import { LAW_CODE, MEASURES_PER_RECORD, type CompiledWalk, type Kernel, type KernelSetup } from "./types.js";
+import { CONTROLS_PER_WALK, LAW_CODE, MEASURES_PER_RECORD, type CompiledWalk, type Kernel, type KernelSetup } from "./types.js";
 import { Rng } from "./prng.js";
 import { areaOf, diameterOf, monotoneChain, perimeterOf, sortPoints } from "./geometry.js";
 
@@ -239,7 +239,7 @@ export class TwinKernel implements Kernel {
   }
 
   /** As assembly/simulate.ts runPath: per-walk frames and filters, one chain per grid n. */
-  private runPath(out: Float64Array, offset: number): void {
+  private runPath(out: Float64Array, offset: number, ctl: Float64Array | null, ctlOffset: number): void {
     const { k, nMax: N, grid, PX, PY, SX, SY, NZ, SEG } = this;
     const G = grid.length;
     const stride = N + 1;
@@ -284,7 +284,26 @@ export class TwinKernel implements Kernel {
       out[r + 1] = diameterOf(this.HX, this.HY, h);
       out[r + 2] = areaOf(this.HX, this.HY, h);
       out[r + 3] = h;
+      if (ctl) this.writeControls(ctl, ctlOffset, g, hi);
       prev = hi;
+    }
+  }
+
+  /** As assembly/simulate.ts writeControls: centred endpoint and integrated path of each walk at n = hi. */
+  private writeControls(ctl: Float64Array, offset: number, g: number, hi: number): void {
+    const { k, nMax: N, grid, PX, PY, SEG } = this;
+    const G = grid.length;
+    const fn = hi;
+    const tri = 0.5 * fn * (fn + 1.0);
+    for (let j = 0; j < k; j++) {
+      const [mx, my] = this.walks[j].mean;
+      const at = j * (N + 1) + hi;
+      const o = 5 * (j * G + g);
+      const r = offset + CONTROLS_PER_WALK * (g * k + j);
+      ctl[r] = PX[at] - fn * mx;
+      ctl[r + 1] = PY[at] - fn * my;
+      ctl[r + 2] = SEG[o] - tri * mx;
+      ctl[r + 3] = SEG[o + 1] - tri * my;
     }
   }
 
@@ -295,11 +314,13 @@ export class TwinKernel implements Kernel {
     return this.hullCount;
   }
 
-  runBlock(block: number, pathCount: number): Float64Array {
+  runBlock(block: number, pathCount: number, controls?: Float64Array): Float64Array {
     const rec = this.grid.length * MEASURES_PER_RECORD;
+    const crec = this.grid.length * this.k * CONTROLS_PER_WALK;
+    if (controls && controls.length !== pathCount * crec) throw new Error(`controls: length ${controls.length}, expected ${pathCount * crec}`);
     const out = new Float64Array(pathCount * rec);
     this.rng.seedBlock(this.seed, block);
-    for (let p = 0; p < pathCount; p++) this.runPath(out, p * rec);
+    for (let p = 0; p < pathCount; p++) this.runPath(out, p * rec, controls ?? null, p * crec);
     return out;
   }
 
@@ -307,7 +328,7 @@ export class TwinKernel implements Kernel {
   samplePath(block: number): { points: Float64Array[]; hull: Float64Array } {
     const rec = this.grid.length * MEASURES_PER_RECORD;
     this.rng.seedBlock(this.seed, block);
-    this.runPath(new Float64Array(rec), 0);
+    this.runPath(new Float64Array(rec), 0, null, 0);
     const stride = this.nMax + 1;
     const points: Float64Array[] = [];
     for (let j = 0; j < this.k; j++) {

@@ -21,7 +21,12 @@ export const LAW_CODE = { gaussian: 0, discrete: 1, circle: 2, student: 3, empir
 export interface CompiledWalk {
   code: number;
   params: Float64Array;
+  /** Exact step mean (NaN when the law has none): centres the control values. */
+  mean: [number, number];
 }
+
+/** Control values per walk and grid point: centred endpoint (x, y), centred integrated path (x, y). */
+export const CONTROLS_PER_WALK = 4;
 
 export interface KernelSetup {
   walks: CompiledWalk[];
@@ -36,8 +41,11 @@ export interface Kernel {
    * Simulate `pathCount` paths of block `block`, the block's stream derived from (seed, block) by a
    * seed mixer. Returns a fresh Float64Array of length pathCount * grid.length * 4, laid out
    * [path][gridIndex][measure] with the measures in KERNEL_MEASURES order.
+   * When `controls` is given (length pathCount * grid.length * walks * CONTROLS_PER_WALK) it is
+   * filled with the control values, laid out [path][gridIndex][walk][Xx, Xy, Yx, Yy]:
+   * X = S_n - n mu (centred endpoint), Y = sum_{i<=n} S_i - mu n(n+1)/2 (centred integrated path).
    */
-  runBlock(block: number, pathCount: number): Float64Array;
+  runBlock(block: number, pathCount: number, controls?: Float64Array): Float64Array;
   /**
    * One path of the block's stream (its first path), for plots: the points of each walk up to
    * the largest n (walk-major: walk j's points are points[j][0..nMax]) and the hull vertices

@@ -5,7 +5,7 @@
 import { readFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { fileURLToPath } from "node:url";
-import { MEASURES_PER_RECORD, type Kernel, type KernelSetup } from "./types.js";
+import { CONTROLS_PER_WALK, MEASURES_PER_RECORD, type Kernel, type KernelSetup } from "./types.js";
 import { zigguratTables } from "./prng.js";
 
 const WASM_URL = new URL("../../build/walkhull.wasm", import.meta.url);
@@ -44,7 +44,8 @@ export interface WalkhullExports {
   setup(k: number, gridPtr: number, g: number): void;
   setWalk(j: number, code: number, paramsPtr: number): void;
   seedBlock(seed: bigint, block: bigint): void;
-  runPaths(count: number, outPtr: number): void;
+  setDrift(j: number, mx: number, my: number): void;
+  runPaths(count: number, outPtr: number, ctlPtr: number): void;
   pointsXPtr(): number;
   pointsYPtr(): number;
   hullXPtr(): number;
@@ -102,7 +103,10 @@ export function createWasmKernel(module: WebAssembly.Module, setup: KernelSetup)
     return ptr;
   });
   ex.setup(k, gridPtr, G);
-  setup.walks.forEach((w, j) => ex.setWalk(j, w.code, paramPtrs[j]));
+  setup.walks.forEach((w, j) => {
+    ex.setWalk(j, w.code, paramPtrs[j]);
+    ex.setDrift(j, w.mean[0], w.mean[1]);
+  });
   // The ziggurat tables of the twin (V8's exp/log), so both kernels draw the same normals;
   // AssemblyScript's own exp/log give tables differing in the last ulp.
   const zig = zigguratTables();
@@ -110,6 +114,8 @@ export function createWasmKernel(module: WebAssembly.Module, setup: KernelSetup)
   new Float64Array(ex.memory.buffer, zigPtr, 257).set(zig.X);
   new Float64Array(ex.memory.buffer, zigPtr + 257 * 8, 257).set(zig.F);
   const outPtr = ex.allocF64(CHUNK_PATHS * rec);
+  const crec = G * k * CONTROLS_PER_WALK;
+  const ctlPtr = ex.allocF64(CHUNK_PATHS * crec);
   const inXPtr = ex.allocF64(capacity);
   const inYPtr = ex.allocF64(capacity);
   const measPtr = ex.allocF64(4);
@@ -141,20 +147,23 @@ export function createWasmKernel(module: WebAssembly.Module, setup: KernelSetup)
 
   return {
     exports: ex,
-    runBlock(block: number, pathCount: number): Float64Array {
+    runBlock(block: number, pathCount: number, controls?: Float64Array): Float64Array {
       const out = new Float64Array(pathCount * rec);
+      if (controls && controls.length !== pathCount * crec) throw new Error(`controls: length ${controls.length}, expected ${pathCount * crec}`);
       ex.seedBlock(seed, BigInt(block));
       for (let done = 0; done < pathCount; done += CHUNK_PATHS) {
         const c = Math.min(CHUNK_PATHS, pathCount - done);
-        ex.runPaths(c, outPtr);
-        out.set(refresh().subarray(outPtr / 8, outPtr / 8 + c * rec), done * rec);
+        ex.runPaths(c, outPtr, ctlPtr);
+        const H = refresh();
+        out.set(H.subarray(outPtr / 8, outPtr / 8 + c * rec), done * rec);
+        if (controls) controls.set(H.subarray(ctlPtr / 8, ctlPtr / 8 + c * crec), done * crec);
       }
       return out;
     },
     // Points and hull are interleaved: [x_0, y_0, x_1, y_1, ...]; points[j] has nMax + 1 points.
     samplePath(block: number) {
       ex.seedBlock(seed, BigInt(block));
-      ex.runPaths(1, outPtr);
+      ex.runPaths(1, outPtr, ctlPtr);
       const H = refresh();
       const px = ex.pointsXPtr() / 8, py = ex.pointsYPtr() / 8;
       const stride = nMax + 1;
