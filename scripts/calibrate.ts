@@ -25,7 +25,8 @@ import { readFileSync, writeFileSync } from "node:fs";
 import { deserialize, serialize } from "node:v8";
 import { parseArgs } from "node:util";
 import { validateSuite } from "../src/suite/load.js";
-import { MEASURES, type Suite } from "../src/suite/schema.js";
+import type { Suite } from "../src/suite/schema.js";
+import { seriesIndex } from "../src/run/series.js";
 import type { SimulationResult } from "../src/run/types.js";
 import { runSuite } from "../src/run/run.js";
 import { predict } from "../src/theory/predict.js";
@@ -79,8 +80,8 @@ const fromSims: SavedSim[] | null = flags["from-sims"] ? (deserialize(readFileSy
 
 /** Only the kept sample of the measured series (the others are never read by the verdicts). */
 function slim(sim: SimulationResult): SimulationResult {
-  const used = new Set(sim.suite.measure.map((m) => MEASURES.indexOf(m)));
-  return { ...sim, sample: { pathIndex: sim.sample.pathIndex, values: sim.sample.values.map((v, i) => (used.has(i % 4) ? v : new Float64Array(0))) } };
+  const used = new Set(sim.suite.measure.flatMap((m) => sim.suite.n.map((_, g) => seriesIndex(sim, m, g))));
+  return { ...sim, sample: { pathIndex: sim.sample.pathIndex, values: sim.sample.values.map((v, i) => (used.has(i) ? v : new Float64Array(0))) } };
 }
 
 async function once(suite: Suite, seed: number, save = false) {

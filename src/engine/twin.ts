@@ -3,20 +3,13 @@
 // exp/log/cos/sin/pow between V8 and AssemblyScript's math library; see ./prng.ts). It is the
 // oracle of the kernel tests and the JS baseline of the bench.
 
-import { CONTROLS_PER_WALK, LAW_CODE, MEASURES_PER_RECORD, type CompiledWalk, type Kernel, type KernelSetup } from "./types.js";
+import { CONTROLS_PER_WALK, LAW_CODE, recordLayout, type CompiledWalk, type Kernel, type KernelSetup, type RecordLayout } from "./types.js";
 import { Rng } from "./prng.js";
-import { areaOf, diameterOf, monotoneChain, perimeterOf, sortPoints } from "./geometry.js";
+import { monotoneChain, sortPoints } from "../geometry/convex-hull.js";
+import { hullFunctionals, MEASURE_COUNT } from "../geometry/measure-registry.js";
 
-export {
-  convexHull,
-  hullMeasures,
-  perimeterOf,
-  diameterOf,
-  areaOf,
-  orient,
-  crossSign,
-  type HullMeasures,
-} from "./geometry.js";
+export { convexHull, perimeterOf, diameterOf, areaOf, orient, crossSign } from "../geometry/convex-hull.js";
+export { hullMeasures, type HullMeasures } from "../geometry/measure-registry.js";
 export { Rng, zigguratTables } from "./prng.js";
 
 /** Draws `count` steps of a compiled law (draw order: see assembly/laws.ts). */
@@ -93,6 +86,7 @@ export class TwinKernel implements Kernel {
   readonly k: number;
   readonly nMax: number;
   readonly grid: number[];
+  readonly layout: RecordLayout;
   readonly walks: CompiledWalk[];
   readonly seed: number;
   readonly rng = new Rng();
@@ -122,6 +116,7 @@ export class TwinKernel implements Kernel {
     this.walks = setup.walks;
     this.k = setup.walks.length;
     this.grid = setup.grid.slice();
+    this.layout = recordLayout(this.grid.length);
     this.seed = setup.seed;
     this.nMax = this.grid[this.grid.length - 1];
     const pts = this.k * (this.nMax + 1);
@@ -279,11 +274,7 @@ export class TwinKernel implements Kernel {
         this.filterCandidates(start);
       }
       const h = this.chain();
-      const r = offset + MEASURES_PER_RECORD * g;
-      out[r] = perimeterOf(this.HX, this.HY, h);
-      out[r + 1] = diameterOf(this.HX, this.HY, h);
-      out[r + 2] = areaOf(this.HX, this.HY, h);
-      out[r + 3] = h;
+      hullFunctionals(this.HX, this.HY, h, out, offset + this.layout.perPoint * g);
       if (ctl) this.writeControls(ctl, ctlOffset, g, hi);
       prev = hi;
     }
@@ -315,7 +306,7 @@ export class TwinKernel implements Kernel {
   }
 
   runBlock(block: number, pathCount: number, controls?: Float64Array): Float64Array {
-    const rec = this.grid.length * MEASURES_PER_RECORD;
+    const rec = this.layout.width;
     const crec = this.grid.length * this.k * CONTROLS_PER_WALK;
     if (controls && controls.length !== pathCount * crec) throw new Error(`controls: length ${controls.length}, expected ${pathCount * crec}`);
     const out = new Float64Array(pathCount * rec);
@@ -326,7 +317,7 @@ export class TwinKernel implements Kernel {
 
   /** Points and hull interleaved: [x_0, y_0, x_1, y_1, ...]; points[j] has nMax + 1 points. */
   samplePath(block: number): { points: Float64Array[]; hull: Float64Array } {
-    const rec = this.grid.length * MEASURES_PER_RECORD;
+    const rec = this.layout.width;
     this.rng.seedBlock(this.seed, block);
     this.runPath(new Float64Array(rec), 0, null, 0);
     const stride = this.nMax + 1;
@@ -358,7 +349,7 @@ export class TwinKernel implements Kernel {
 
   /**
    * Hull through the kernel's own filter + chain (frame from the points' moments); count must not
-   * exceed k * (nMax + 1). Returns the vertices and the four measures.
+   * exceed k * (nMax + 1). Returns the vertices and the measures in slot order.
    */
   hullOfPoints(xs: ArrayLike<number>, ys: ArrayLike<number>, useFilter = true): { x: Float64Array; y: Float64Array; measures: Float64Array } {
     const count = xs.length;
@@ -379,7 +370,8 @@ export class TwinKernel implements Kernel {
     }
     this.hullCount = h;
     const x = this.HX.slice(0, h), y = this.HY.slice(0, h);
-    const measures = Float64Array.of(perimeterOf(x, y, h), diameterOf(x, y, h), areaOf(x, y, h), h);
+    const measures = new Float64Array(MEASURE_COUNT);
+    hullFunctionals(x, y, h, measures, 0);
     return { x, y, measures };
   }
 }

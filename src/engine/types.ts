@@ -2,9 +2,32 @@
 // A kernel simulates one block of paths from its own stream and returns raw per-path values;
 // everything statistical happens above this seam.
 
-/** Order of the measures in a kernel's output record. */
-export const KERNEL_MEASURES = ["perimeter", "diameter", "area", "vertices"] as const;
-export const MEASURES_PER_RECORD = 4;
+import { MEASURE_COUNT, measureSpec, type Measure } from "../geometry/measure-registry.js";
+
+/**
+ * Layout of a kernel's per-path record: grid point after grid point, each holding `perPoint`
+ * numbers, the measures first at their registry slots (further per-point values may follow them).
+ * The only place that knows how a record is laid out; everything else asks it.
+ */
+export interface RecordLayout {
+  gridLength: number;
+  /** Numbers per grid point. */
+  perPoint: number;
+  /** Numbers per path: gridLength * perPoint. */
+  width: number;
+  /** Position of a measure's value at grid index g within a path's record. */
+  index(g: number, measure: Measure): number;
+}
+
+export function recordLayout(gridLength: number): RecordLayout {
+  const perPoint = MEASURE_COUNT;
+  return {
+    gridLength,
+    perPoint,
+    width: gridLength * perPoint,
+    index: (g, measure) => g * perPoint + measureSpec(measure).slot,
+  };
+}
 
 /** Law codes shared by assembly/ and the TS twin. */
 export const LAW_CODE = { gaussian: 0, discrete: 1, circle: 2, student: 3, empirical: 4 } as const;
@@ -39,8 +62,7 @@ export interface KernelSetup {
 export interface Kernel {
   /**
    * Simulate `pathCount` paths of block `block`, the block's stream derived from (seed, block) by a
-   * seed mixer. Returns a fresh Float64Array of length pathCount * grid.length * 4, laid out
-   * [path][gridIndex][measure] with the measures in KERNEL_MEASURES order.
+   * seed mixer. Returns a fresh Float64Array of pathCount records laid out as recordLayout(grid.length) says.
    * When `controls` is given (length pathCount * grid.length * walks * CONTROLS_PER_WALK) it is
    * filled with the control values, laid out [path][gridIndex][walk][Xx, Xy, Yx, Yy]:
    * X = S_n - n mu (centred endpoint), Y = sum_{i<=n} S_i - mu n(n+1)/2 (centred integrated path).

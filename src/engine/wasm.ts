@@ -5,8 +5,9 @@
 import { readFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { fileURLToPath } from "node:url";
-import { CONTROLS_PER_WALK, MEASURES_PER_RECORD, type Kernel, type KernelSetup } from "./types.js";
+import { CONTROLS_PER_WALK, recordLayout, type Kernel, type KernelSetup } from "./types.js";
 import { zigguratTables } from "./prng.js";
+import { MEASURE_COUNT } from "../geometry/measure-registry.js";
 
 const WASM_URL = new URL("../../build/walkhull.wasm", import.meta.url);
 
@@ -89,7 +90,7 @@ export function createWasmKernel(module: WebAssembly.Module, setup: KernelSetup)
   const k = setup.walks.length;
   const G = setup.grid.length;
   const nMax = setup.grid[G - 1];
-  const rec = G * MEASURES_PER_RECORD;
+  const rec = recordLayout(G).width;
   const capacity = k * (nMax + 1);
   const seed = BigInt(setup.seed);
 
@@ -118,7 +119,7 @@ export function createWasmKernel(module: WebAssembly.Module, setup: KernelSetup)
   const ctlPtr = ex.allocF64(CHUNK_PATHS * crec);
   const inXPtr = ex.allocF64(capacity);
   const inYPtr = ex.allocF64(capacity);
-  const measPtr = ex.allocF64(4);
+  const measPtr = ex.allocF64(MEASURE_COUNT);
   let scratch = { count: 0, x: 0, y: 0, z: 0 };
 
   let heap = new Float64Array(ex.memory.buffer);
@@ -201,7 +202,7 @@ export function createWasmKernel(module: WebAssembly.Module, setup: KernelSetup)
       const hull = readHull();
       const x = new Float64Array(h), y = new Float64Array(h);
       for (let i = 0; i < h; i++) { x[i] = hull[2 * i]; y[i] = hull[2 * i + 1]; }
-      return { x, y, measures: refresh().slice(measPtr / 8, measPtr / 8 + 4) };
+      return { x, y, measures: refresh().slice(measPtr / 8, measPtr / 8 + MEASURE_COUNT) };
     },
     normals(block: number, count: number, method: "ziggurat" | "polar"): Float64Array {
       ensureScratch(count);

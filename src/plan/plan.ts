@@ -13,7 +13,7 @@
 import { normalQuantile } from "../stats/normal.js";
 import { mergeAll } from "../stats/moments.js";
 import type { MomentState } from "../stats/types.js";
-import { KERNEL_MEASURES, MEASURES_PER_RECORD } from "../engine/types.js";
+import { measureBlocks } from "../run/series.js";
 import { simulateInProcess } from "../run/simulate.js";
 import type { LoadedSuite, Measure } from "../suite/schema.js";
 import { predict } from "../theory/predict.js";
@@ -170,10 +170,10 @@ export function planSuite(suite: LoadedSuite, opts: PlanOptions): SuitePlan {
   const G = suite.n.length;
   const nMax = suite.n[G - 1];
   const measures = suite.measure.map((measure): MeasurePlan => {
-    const mi = KERNEL_MEASURES.indexOf(measure);
+    const series = measureBlocks(sim, measure);
     const p = scalings.get(measure) ?? 1;
     const scale = Math.pow(nMax, p);
-    const atLast = sim.blocks.map((b) => b.moments[(G - 1) * MEASURES_PER_RECORD + mi]);
+    const atLast = series.map((b) => b[G - 1]);
     const raw = pooled(atLast);
     const sigma2 = raw.sigma2 / scale;
     const mu4 = raw.mu4 / (scale * scale);
@@ -189,7 +189,7 @@ export function planSuite(suite: LoadedSuite, opts: PlanOptions): SuitePlan {
     try {
       const ex = extrapolate({
         measure, quantity: "varianceLimit", scaling: p, n: suite.n,
-        blocks: sim.blocks.map((b) => suite.n.map((_, g) => b.moments[g * MEASURES_PER_RECORD + mi])),
+        blocks: series,
         expectedRate: suite.expectedRate ?? 0.5,
       });
       const last = ex.limit.ratios[ex.limit.ratios.length - 1];

@@ -3,11 +3,13 @@
 // interval of the limit; QQ plot and histogram at the largest n; KS distance vs n (log-log) with
 // its fitted rate; the hull of one sample path. Plot data: src/report/plots.ts.
 
+import { measureSample } from "../run/series.js";
+import type { Measure } from "../suite/schema.js";
 import type { KeptSample } from "../run/types.js";
 import type { LimitEstimate } from "../verdict/types.js";
 import type { Report } from "./json.js";
 import { reportSections, type Table } from "./markdown.js";
-import { histogramData, histogramSvg, hullSvg, ksSeries, ksSvg, qqData, qqSvg, sampleColumn, varianceRatioSvg, varianceSeries, type PathGeometry } from "./plots.js";
+import { histogramData, histogramSvg, hullSvg, ksSeries, ksSvg, qqData, qqSvg, varianceRatioSvg, varianceSeries, type PathGeometry } from "./plots.js";
 import { escapeXml as esc } from "./svg.js";
 
 export interface HtmlExtras {
@@ -56,7 +58,7 @@ function htmlTable(t: Table, verdictColumn = -1): string {
 const figure = (svg: string, caption: string) => `<figure>${svg}<figcaption>${esc(caption)}</figcaption></figure>`;
 
 /** The plots of one measure. */
-function measurePlots(r: Report, measure: string, extras: HtmlExtras): string {
+function measurePlots(r: Report, measure: Measure, extras: HtmlExtras): string {
   const parts: string[] = [];
   const pred = r.predictions?.measures.find((m) => m.measure === measure);
   const vs = varianceSeries(measure, r.results, pred, (r.limits ?? []) as LimitEstimate[]);
@@ -71,11 +73,12 @@ function measurePlots(r: Report, measure: string, extras: HtmlExtras): string {
   const sample = extras.sample;
   const G = r.suite.n.length;
   if (sample && sample.pathIndex.length >= 2) {
-    const last = sampleColumn(sample, measure, G - 1);
+    const columns = measureSample({ suite: r.suite, sample }, measure);
+    const last = columns[G - 1];
     const nMax = r.suite.n[G - 1];
     parts.push(figure(qqSvg(measure, nMax, qqData(last)), `Quantiles of the kept sample at n = ${nMax}, standardised by its mean and SD, against the standard normal law (dashed).`));
     parts.push(figure(histogramSvg(measure, nMax, histogramData(last)), `Histogram of the standardised kept sample at n = ${nMax} and the standard normal density.`));
-    const ks = ksSeries(r.suite.n, r.suite.n.map((_, g) => sampleColumn(sample, measure, g)));
+    const ks = ksSeries(r.suite.n, columns);
     parts.push(
       figure(
         ksSvg(measure, ks),

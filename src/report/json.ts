@@ -11,7 +11,7 @@ import type { Prediction } from "../theory/types.js";
 import type { LoadedSuite } from "../suite/schema.js";
 import { mergeBlockComoments } from "../run/blocks.js";
 import { covarianceMatrix } from "../stats/moments.js";
-import { KERNEL_MEASURES, MEASURES_PER_RECORD } from "../engine/types.js";
+import { seriesIndex } from "../run/series.js";
 
 export const REPORT_FORMAT = "walkhull-report/1";
 
@@ -99,12 +99,10 @@ export function measureCovariance(sim: SimulationResult): Report["covariance"] {
   const comoments = mergeBlockComoments(sim.blocks);
   const cov = covarianceMatrix(comoments);
   const dim = comoments.dim;
-  const idx = sim.suite.measure.map((m) => KERNEL_MEASURES.indexOf(m));
-  return sim.suite.n.map((n, g) => ({
-    n,
-    measures: [...sim.suite.measure],
-    matrix: idx.map((a) => idx.map((b) => cov[(g * MEASURES_PER_RECORD + a) * dim + g * MEASURES_PER_RECORD + b])),
-  }));
+  return sim.suite.n.map((n, g) => {
+    const idx = sim.suite.measure.map((m) => seriesIndex(sim, m, g));
+    return { n, measures: [...sim.suite.measure], matrix: idx.map((a) => idx.map((b) => cov[a * dim + b])) };
+  });
 }
 
 export function buildReport(

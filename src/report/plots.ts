@@ -13,7 +13,6 @@
 //   log d = a - r log n. The points share paths, so the slope's SE is indicative only.
 // - hull: the points of one sample path per walk and the hull of all of them.
 
-import { KERNEL_MEASURES, MEASURES_PER_RECORD } from "../engine/types.js";
 import type { KeptSample, ResultRecord } from "../run/types.js";
 import { ksNormalDistance, meanSd } from "../stats/lilliefors.js";
 import { normalQuantile } from "../stats/normal.js";
@@ -124,12 +123,6 @@ export function varianceRatioSvg(s: VarianceSeries): string {
   lg.push({ cls: "pt", kind: "dot", text: "simulated ratio, 95% error bars" });
   body.push(legend(f, lg));
   return svgPlot({ "data-plot": "variance-ratio", "data-measure": s.measure, "data-points": s.points.length }, f, `Var/n^p of the ${s.measure}`, body.join(""));
-}
-
-/** Column of the kept sample for a measure at grid index g. */
-export function sampleColumn(sample: KeptSample, measure: string, g: number): Float64Array {
-  const mi = (KERNEL_MEASURES as readonly string[]).indexOf(measure);
-  return sample.values[g * MEASURES_PER_RECORD + mi];
 }
 
 export interface QQData {

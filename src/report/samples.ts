@@ -1,7 +1,7 @@
 // The kept per-path sample as CSV: one row per kept path, a `path` column (global path index) and
 // one column per measure and n, named `<measure>@<n>` (e.g. `perimeter@100`), in the suite's order.
 
-import { KERNEL_MEASURES, MEASURES_PER_RECORD } from "../engine/types.js";
+import { measureSample, seriesWidth } from "../run/series.js";
 import type { KeptSample } from "../run/types.js";
 import type { Suite } from "../suite/schema.js";
 
@@ -16,15 +16,11 @@ export function sampleColumns(suite: Pick<Suite, "measure" | "n">): string[] {
  * match the suite's grid.
  */
 export function samplesCsv(suite: Pick<Suite, "measure" | "n">, sample: KeptSample): string {
-  const dim = suite.n.length * MEASURES_PER_RECORD;
+  const dim = seriesWidth({ suite });
   if (sample.values.length !== dim) {
-    throw new Error(`sample.values: ${sample.values.length} columns, expected ${dim} (grid of ${suite.n.length} x ${MEASURES_PER_RECORD} measures)`);
+    throw new Error(`sample.values: ${sample.values.length} columns, expected ${dim} (grid of ${suite.n.length} x record)`);
   }
-  const cols = suite.measure.flatMap((m) => {
-    const mi = KERNEL_MEASURES.indexOf(m);
-    if (mi < 0) throw new Error(`measure: unknown measure ${JSON.stringify(m)}`);
-    return suite.n.map((_, g) => sample.values[g * MEASURES_PER_RECORD + mi]);
-  });
+  const cols = suite.measure.flatMap((m) => measureSample({ suite, sample }, m));
   const rows: string[] = [sampleColumns(suite).join(",")];
   for (let i = 0; i < sample.pathIndex.length; i++) {
     const cells = [String(sample.pathIndex[i])];

@@ -2,7 +2,7 @@
 // Pure functions of numbers: used in-process, in worker threads, and by shard merging alike.
 
 import { emptyCoMoments, emptyMoments, mergeCoMoments, mergeMoments, pushValue, pushVector } from "../stats/moments.js";
-import { MEASURES_PER_RECORD } from "../engine/types.js";
+import { recordLayout } from "../engine/types.js";
 import type { BlockStats, KeptSample } from "./types.js";
 
 /** At most this many per-path records are kept for distributional checks (2^17). */
@@ -12,7 +12,7 @@ export const MAX_KEPT = 1 << 17;
 export interface KeptCandidates {
   pathIndex: number[];
   hash: number[];
-  /** Row-major: record i occupies values[i*dim .. (i+1)*dim), dim = grid.length * 4. */
+  /** Row-major: record i occupies values[i*dim .. (i+1)*dim), dim = recordLayout(grid.length).width. */
   values: number[];
 }
 
@@ -23,7 +23,7 @@ export interface BlockOutput {
   max: number[];
 }
 
-/** Summarise the kernel output of one block (layout [path][gridIndex][measure]). */
+/** Summarise the kernel output of one block (pathCount records laid out as recordLayout(gridLength)). */
 export function summarizeBlock(
   values: Float64Array,
   gridLength: number,
@@ -34,7 +34,7 @@ export function summarizeBlock(
   totalPaths: number,
   keep: number = MAX_KEPT,
 ): BlockOutput {
-  const dim = gridLength * MEASURES_PER_RECORD;
+  const dim = recordLayout(gridLength).width;
   const moments = Array.from({ length: dim }, emptyMoments);
   const comoments = emptyCoMoments(dim);
   const min = new Array<number>(dim).fill(Infinity);

@@ -3,7 +3,7 @@
 
 import { existsSync, readFileSync, renameSync, writeFileSync } from "node:fs";
 import type { LoadedSuite } from "../suite/schema.js";
-import { MEASURES_PER_RECORD } from "../engine/types.js";
+import { recordLayout } from "../engine/types.js";
 import { runStateFromJson, runStateToJson, type RunState, type RunStateJson } from "./state.js";
 
 export const CHECKPOINT_FORMAT = "walkhull-checkpoint/1";
@@ -73,7 +73,7 @@ export function readCheckpoint(
   if (j.blockCount !== blockCount) throw refuse(`has ${j.blockCount} blocks, this run ${blockCount}`);
   const sameShard = (j.shard === null && shard === null) || (j.shard && shard && j.shard.index === shard.index && j.shard.count === shard.count);
   if (!sameShard) throw refuse(`is for shard ${j.shard ? `${j.shard.index}/${j.shard.count}` : "none"}, this run ${shard ? `${shard.index}/${shard.count}` : "none"}`);
-  const dim = suite.n.length * MEASURES_PER_RECORD;
+  const dim = recordLayout(suite.n.length).width;
   try {
     const state = runStateFromJson(j, dim, `checkpoint ${path}`);
     const seen = new Set<number>();

@@ -3,7 +3,7 @@
 // so the merged results carry the same bits as one uninterrupted run.
 
 import { readFileSync } from "node:fs";
-import { MEASURES_PER_RECORD } from "../engine/types.js";
+import { recordLayout } from "../engine/types.js";
 import { blockCount } from "../suite/load.js";
 import type { LoadedSuite } from "../suite/schema.js";
 import { toolVersion } from "../version.js";
@@ -87,7 +87,7 @@ export function mergeShardFiles(files: string[], version: string): SimulationRes
 
   const suite = first.j.suite;
   if (blockCount(suite) !== first.j.blockCount) throw new MergeError(`${first.file}: block count does not match its suite`);
-  const dim = suite.n.length * MEASURES_PER_RECORD;
+  const dim = recordLayout(suite.n.length).width;
   const collector = new BlockCollector(suite);
   const keptSets = [];
   const min = new Array<number>(dim).fill(Infinity);

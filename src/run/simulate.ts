@@ -5,7 +5,7 @@ import { compileWalks } from "../engine/compile.js";
 import { createTwinKernel } from "../engine/twin.js";
 import { createWasmKernel, loadWasmModuleSync } from "../engine/wasm.js";
 import type { Kernel, KernelSetup } from "../engine/types.js";
-import { KERNEL_MEASURES, MEASURES_PER_RECORD } from "../engine/types.js";
+import { recordLayout } from "../engine/types.js";
 import { summarize } from "../stats/moments.js";
 import { blockCount, blockRange } from "../suite/load.js";
 import type { LoadedSuite, Suite } from "../suite/schema.js";
@@ -42,7 +42,7 @@ export class BlockCollector {
   max: number[];
 
   constructor(readonly suite: LoadedSuite) {
-    this.dim = suite.n.length * MEASURES_PER_RECORD;
+    this.dim = recordLayout(suite.n.length).width;
     this.min = new Array<number>(this.dim).fill(Infinity);
     this.max = new Array<number>(this.dim).fill(-Infinity);
   }
@@ -103,11 +103,11 @@ export class BlockCollector {
 export function resultRecords(suite: Suite, blocks: BlockStats[], min: number[], max: number[]): ResultRecord[] {
   if (blocks.length === 0) return [];
   const moments = mergeBlockMoments(blocks);
+  const layout = recordLayout(suite.n.length);
   const rows: ResultRecord[] = [];
   for (const measure of suite.measure) {
-    const m = KERNEL_MEASURES.indexOf(measure);
     suite.n.forEach((n, g) => {
-      const j = g * MEASURES_PER_RECORD + m;
+      const j = layout.index(g, measure);
       const s = summarize(moments[j]);
       rows.push({
         measure,

@@ -89,7 +89,7 @@ export interface RunState {
 export interface RunStateJson {
   blocks: BlockStatsJson[];
   kept: KeptJson;
-  /** Extremes per [gridIndex*4+measure]; null stands for an infinite (empty) extreme. */
+  /** Extremes per number of the kernel record; null stands for an infinite (empty) extreme. */
   min: (number | null)[];
   max: (number | null)[];
 }

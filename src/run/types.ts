@@ -9,9 +9,9 @@ export interface BlockStats {
   /** First global path index of the block and its number of paths. */
   firstPath: number;
   paths: number;
-  /** Moment sums indexed [gridIndex * 4 + measureIndex] (all four kernel measures). */
+  /** Moment sums, one per number of the kernel record (see recordLayout; read them with measureBlocks). */
   moments: MomentState[];
-  /** Co-moments of the (gridIndex, measure) vector, dim = grid.length * 4. */
+  /** Co-moments of the kernel record, dim = recordLayout(grid.length).width. */
   comoments: CoMomentState;
 }
 
@@ -36,7 +36,7 @@ export interface ResultRecord {
 export interface KeptSample {
   /** Global path indices, ascending. */
   pathIndex: number[];
-  /** values[gridIndex * 4 + measureIndex][i] for path pathIndex[i]. */
+  /** One column per number of the kernel record (see recordLayout; read them with measureSample). */
   values: Float64Array[];
 }
 
@@ -48,7 +48,7 @@ export interface SimulationResult {
   blockCount: number;
   results: ResultRecord[];
   sample: KeptSample;
-  /** min/max per [gridIndex*4+measure] over all paths. */
+  /** min/max per number of the kernel record over all paths. */
   min: number[];
   max: number[];
   wallSeconds: number;

@@ -38,8 +38,8 @@ export interface EmpiricalLaw {
 export type StepLaw = GaussianLaw | DiscreteLaw | CircleLaw | StudentLaw | EmpiricalLaw;
 export const LAW_NAMES = ["gaussian", "discrete", "circle", "student", "empirical"] as const;
 
-export const MEASURES = ["perimeter", "diameter", "area", "vertices"] as const;
-export type Measure = (typeof MEASURES)[number];
+export { MEASURES, type Measure } from "../geometry/measure-registry.js";
+import type { Measure } from "../geometry/measure-registry.js";
 
 /** A user's claim about a measure (checked by the verdict stage). */
 export interface Claim {

@@ -7,6 +7,7 @@
 // slow-convergence risk (the limit only shows once sqrt(n) * gap dominates the fluctuations).
 
 import type { Mat2, Measure, Suite, Vec2 } from "../suite/schema.js";
+import { measureSpec } from "../geometry/measure-registry.js";
 import { BETA_ISOTROPIC, brownianAreaOneWalk, brownianPerimeterConstant, RMC_SOURCE, SCALING_LIMIT_SOURCE, U0_ESTIMATE, V0_ESTIMATE } from "./brownian-limits.js";
 import { oneWalkDriftArea } from "./drift-area.js";
 import { dist, driftPolygon, locate, type DriftPolygon } from "./geometry.js";
@@ -44,8 +45,9 @@ const fmt = (x: number) => (Math.abs(x) >= 1e4 || (Math.abs(x) < 1e-3 && x !== 0
 const vstr = (v: Vec2) => `(${fmt(v[0])}, ${fmt(v[1])})`;
 
 function blank(measure: Measure, c: Context): Diagnosis {
+  const { scaling } = measureSpec(measure);
   return {
-    measure, limitLaw: "unknown", varianceLimit: null, varianceScaling: 1, meanGrowth: null, meanScaling: 1,
+    measure, limitLaw: "unknown", varianceLimit: null, varianceScaling: scaling.variance, meanGrowth: null, meanScaling: scaling.mean,
     varianceLimitKind: null, meanGrowthKind: null, reasons: [...c.common], sources: [],
     ...(c.uncalibrated ? { varianceUncalibrated: true } : {}),
   };

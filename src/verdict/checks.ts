@@ -12,8 +12,9 @@ import { mergeAll, summarize } from "../stats/moments.js";
 import { normalQuantile, twoSidedNormalP } from "../stats/normal.js";
 import type { MomentState } from "../stats/types.js";
 import type { SimulationResult } from "../run/types.js";
+import { measureBlocks, measureSample, seriesWidth } from "../run/series.js";
 import type { MeasurePrediction, Prediction } from "../theory/types.js";
-import { MEASURES, type Measure } from "../suite/schema.js";
+import type { Measure } from "../suite/schema.js";
 import { extrapolate, LEVEL, type Extrapolation } from "./extrapolate.js";
 import { normalityEvidence, type NormalityEvidence } from "./normality.js";
 import type { Check, CheckKind, LimitEstimate, Verdict, VerdictReport } from "./types.js";
@@ -51,13 +52,11 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
   if (G < 1) throw new Error("n: the grid is empty");
   if (sim.blocks.length < 1) throw new Error("blocks: no block statistics to check");
   sim.blocks.forEach((b, i) => {
-    if (b.moments.length !== G * 4) throw new Error(`blocks[${i}].moments: length ${b.moments.length}, expected ${G * 4} (grid x 4 measures)`);
+    const width = seriesWidth(sim);
+    if (b.moments.length !== width) throw new Error(`blocks[${i}].moments: length ${b.moments.length}, expected ${width} (grid x record)`);
   });
 
-  const blocksFor = (measure: Measure): MomentState[][] => {
-    const mi = MEASURES.indexOf(measure);
-    return sim.blocks.map((b) => grid.map((_, g) => b.moments[g * 4 + mi]));
-  };
+  const blocksFor = (measure: Measure): MomentState[][] => measureBlocks(sim, measure);
   const predFor = (measure: Measure) => prediction.measures.find((m) => m.measure === measure);
 
   const extrapolations = new Map<string, Extrapolation>();
@@ -137,8 +136,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
   const evidenceFor = (measure: Measure): NormalityEvidence | string => {
     let ev = evidenceCache.get(measure);
     if (ev === undefined) {
-      const mi = MEASURES.indexOf(measure);
-      const samples = grid.map((_, g) => sim.sample.values[g * 4 + mi] ?? new Float64Array(0));
+      const samples = measureSample(sim, measure);
       try {
         ev = normalityEvidence(grid, samples, blocksFor(measure), tol, alpha);
       } catch (e) {

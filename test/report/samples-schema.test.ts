@@ -5,7 +5,7 @@ import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import Ajv2020Module from "ajv/dist/2020.js";
 import { sampleColumns, samplesCsv } from "../../src/report/samples.js";
-import { KERNEL_MEASURES } from "../../src/engine/types.js";
+import { measureSample } from "../../src/run/series.js";
 import { buildOneWalk } from "./fixtures.js";
 
 const ROOT = new URL("../../", import.meta.url).pathname;
@@ -27,10 +27,8 @@ describe("samples CSV", () => {
     const row = 17;
     const cells = lines[1 + row].split(",").map(Number);
     expect(cells[0]).toBe(sim.sample.pathIndex[row]);
-    const perimeter = KERNEL_MEASURES.indexOf("perimeter");
-    expect(cells[6]).toBe(sim.sample.values[2 * 4 + perimeter][row]);
-    const area = KERNEL_MEASURES.indexOf("area");
-    expect(cells[1]).toBe(sim.sample.values[0 * 4 + area][row]);
+    expect(cells[6]).toBe(measureSample(sim, "perimeter")[2][row]);
+    expect(cells[1]).toBe(measureSample(sim, "area")[0][row]);
     // The column means agree with the report's means when every path is kept.
     const col = lines.slice(1).map((l) => Number(l.split(",")[6]));
     const mean = col.reduce((a, b) => a + b, 0) / col.length;

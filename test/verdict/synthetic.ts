@@ -8,6 +8,7 @@ import { emptyCoMoments, emptyMoments, pushValue } from "../../src/stats/moments
 import type { BlockStats, SimulationResult } from "../../src/run/types.js";
 import type { Claim, LoadedSuite, Measure } from "../../src/suite/schema.js";
 import { MEASURES } from "../../src/suite/schema.js";
+import { recordLayout } from "../../src/engine/types.js";
 
 export type PathGenerator = (rng: () => number, grid: number[], out: Float64Array) => void;
 
@@ -61,24 +62,25 @@ export function synthesise(o: SynthOptions): SimulationResult {
   const rng = seedrandom(o.seed);
   const G = o.grid.length;
   const measures = MEASURES.filter((m) => o.generators[m] !== undefined);
-  const keepValues = Array.from({ length: G * 4 }, () => new Float64Array(o.keep));
+  const layout = recordLayout(G);
+  const keepValues = Array.from({ length: layout.width }, () => new Float64Array(o.keep));
   const out = new Float64Array(G);
   const blocks: BlockStats[] = [];
   let path = 0;
   for (let b = 0; b < o.blocks; b++) {
-    const moments = Array.from({ length: G * 4 }, () => emptyMoments());
+    const moments = Array.from({ length: layout.width }, () => emptyMoments());
     for (let p = 0; p < o.pathsPerBlock; p++, path++) {
-      MEASURES.forEach((m, mi) => {
+      MEASURES.forEach((m) => {
         const gen = o.generators[m];
         if (gen) gen(rng, o.grid, out);
         else out.fill(0);
         for (let g = 0; g < G; g++) {
-          pushValue(moments[g * 4 + mi], out[g]);
-          if (path < o.keep) keepValues[g * 4 + mi][path] = out[g];
+          pushValue(moments[layout.index(g, m)], out[g]);
+          if (path < o.keep) keepValues[layout.index(g, m)][path] = out[g];
         }
       });
     }
-    blocks.push({ block: b, firstPath: b * o.pathsPerBlock, paths: o.pathsPerBlock, moments, comoments: emptyCoMoments(G * 4) });
+    blocks.push({ block: b, firstPath: b * o.pathsPerBlock, paths: o.pathsPerBlock, moments, comoments: emptyCoMoments(layout.width) });
   }
   const suite: LoadedSuite = {
     title: "synthetic",

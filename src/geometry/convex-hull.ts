@@ -1,4 +1,4 @@
-// The TS twin of assembly/hull.ts and assembly/measures.ts (same algorithms, same arithmetic), plus
+// Planar convex hulls in plain TS: the twin of assembly/hull.ts and assembly/measures.ts (same algorithms, same arithmetic), plus
 // convenience helpers on point sets for tests.
 
 // ---- Exact sign of cross(a - b, c - d) = (ax-bx)(cy-dy) - (ay-by)(cx-dx): Shewchuk's orient2d
@@ -230,18 +230,4 @@ export function convexHull(xs: ArrayLike<number>, ys: ArrayLike<number>): { x: F
   sortPoints(cx, cy, 0, n - 1);
   const h = monotoneChain(cx, cy, n, hx, hy);
   return { x: hx.slice(0, h), y: hy.slice(0, h) };
-}
-
-export interface HullMeasures {
-  perimeter: number;
-  diameter: number;
-  area: number;
-  vertices: number;
-}
-
-/** Perimeter, diameter, area and vertex count of the hull of a point set. */
-export function hullMeasures(xs: ArrayLike<number>, ys: ArrayLike<number>): HullMeasures {
-  const { x, y } = convexHull(xs, ys);
-  const h = x.length;
-  return { perimeter: perimeterOf(x, y, h), diameter: diameterOf(x, y, h), area: areaOf(x, y, h), vertices: h };
 }
