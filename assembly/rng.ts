@@ -5,8 +5,8 @@
 // The hot loop (fillNormals) keeps the xoshiro state in locals; the global-state functions below
 // serve the rarer samplers (student, circle, discrete...) and slow paths.
 
-// xoshiro256** (D. Blackman, S. Vigna, "Scrambled linear pseudorandom number generators",
-// ACM TOMS 47 (2021)); splitmix64 (G. Steele, D. Lea, C. Flood, OOPSLA 2014).
+// xoshiro256** ("Scrambled linear pseudorandom number generators", ACM TOMS 47 (2021)); splitmix64
+// ("Fast splittable pseudorandom number generators", OOPSLA 2014 [memory for the title]).
 
 export let s0: u64 = 0;
 export let s1: u64 = 0;
@@ -68,9 +68,9 @@ const TWO_M53: f64 = 1.1102230246251565e-16;
   return 1.0 - <f64>(nextU64() >> 11) * TWO_M53;
 }
 
-// ---- Ziggurat, 256 layers (G. Marsaglia, W. W. Tsang, "The ziggurat method for generating random
-// variables", J. Stat. Softw. 5 (2000); layer construction and uniform-in-(-1,1) variant of
-// J. A. Doornik, "An improved ziggurat method to generate normal random samples", 2005).
+// ---- Ziggurat, 256 layers ("The ziggurat method for generating random variables", J. Stat.
+// Softw. 5 (2000); layer construction and uniform-in-(-1,1) variant of "An improved ziggurat method
+// to generate normal random samples", 2005).
 export const ZIG_R: f64 = 3.6541528853610088;
 export const ZIG_V: f64 = 0.00492867323399;
 /** X[0..256] then F[0..256] (F = exp(-x^2/2) at X); 514 f64. */
@@ -161,7 +161,7 @@ export function fillNormals(out: usize, count: i32): void {
 }
 
 /**
- * Polar method (G. Marsaglia, T. A. Bray, SIAM Review 6 (1964)), kept for the bench comparison:
+ * Polar method ("A convenient method for generating normal variables", SIAM Review 6 (1964)), kept for the bench comparison:
  * fills out[0..count) (count even) with standard normals, state in locals.
  */
 export function fillNormalsPolar(out: usize, count: i32): void {
@@ -188,7 +188,7 @@ export function fillNormalsPolar(out: usize, count: i32): void {
   s0 = a; s1 = b; s2 = c; s3 = d;
 }
 
-/** Gamma(shape, 1) by Marsaglia–Tsang (ACM TOMS 26 (2000)); shape < 1 via the u^(1/shape) boost. */
+/** Gamma(shape, 1) by the Marsaglia–Tsang method ("A simple method for generating gamma variables", ACM TOMS 26 (2000)); shape < 1 via the u^(1/shape) boost. */
 export function gammaVariate(shape: f64): f64 {
   if (shape < 1.0) {
     const g = gammaVariate(shape + 1.0);

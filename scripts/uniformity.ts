@@ -1,6 +1,6 @@
 // One-sample Kolmogorov-Smirnov test of p-values against U(0, 1), for the calibration study.
 // p-value from the asymptotic Kolmogorov distribution with Stephens' small-sample correction
-// (M. A. Stephens, "Use of the Kolmogorov-Smirnov, Cramer-von Mises and related statistics without
+// ("Use of the Kolmogorov-Smirnov, Cramer-von Mises and related statistics without
 // extensive tables", JRSS B 32 (1970)): Q_KS((sqrt(m) + 0.12 + 0.11/sqrt(m)) D).
 
 export function ksUniformPValue(ps: number[]): number {

@@ -1,10 +1,12 @@
 // The TS twin of assembly/rng.ts: the same streams bit for bit (xoshiro256** seeded from splitmix64,
 // ziggurat and polar normals, Marsaglia–Tsang gamma), with 64-bit words held as two uint32 halves
 // so that the hot loops stay in plain numbers (no BigInt).
-// Sources: xoshiro256** (Blackman, Vigna, ACM TOMS 47 (2021)); splitmix64 (Steele, Lea, Flood,
-// OOPSLA 2014); ziggurat (Marsaglia, Tsang, J. Stat. Softw. 5 (2000), with Doornik's 2005
-// uniform-in-(-1,1) variant); polar method (Marsaglia, Bray, SIAM Review 6 (1964)); gamma
-// (Marsaglia, Tsang, ACM TOMS 26 (2000)).
+// Sources: xoshiro256** ("Scrambled linear pseudorandom number generators", ACM TOMS 47 (2021));
+// splitmix64 ("Fast splittable pseudorandom number generators", OOPSLA 2014); ziggurat ("The ziggurat
+// method for generating random variables", J. Stat. Softw. 5 (2000), with the uniform-in-(-1,1)
+// variant of "An improved ziggurat method to generate normal random samples", 2005); polar method
+// ("A convenient method for generating normal variables", SIAM Review 6 (1964)); gamma ("A simple
+// method for generating gamma variables", ACM TOMS 26 (2000)) [memory for the titles].
 // Math.exp/log/cos/sin/pow of V8 and of AssemblyScript's library may differ in the last ulp; only
 // values computed with them (tails, wedges, circle steps, gamma) can differ from the WASM stream,
 // and a different accept/reject decision would need a tie within an ulp (probability ~1e-16 per

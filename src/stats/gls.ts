@@ -2,10 +2,11 @@
 //   y_i = s2 + c n_i^(-beta),  beta in [betaMin, betaMax] (default [0.1, 2]),
 // for correlated finite-n estimates (e.g. Var(X_n)/n^p at the grid points of one simulation).
 //
-// Method: GLS (Aitken 1935; e.g. Seber & Lee, Linear Regression Analysis, 2nd ed., sec. 3.10):
+// Method: GLS ("On least squares and linear combination of observations", Proc. R. Soc. Edinb. 55
+// (1935) [memory]; e.g. the textbook Linear Regression Analysis, 2nd ed., sec. 3.10):
 // coef = (X' W X)^{-1} X' W y, Cov(coef) = (X' W X)^{-1}, misfit chi2 = r' W r on m - k degrees of
 // freedom, with W = V^{-1}. When V is itself estimated from g blocks (jackknife), W is scaled by
-// the Hartlap factor (g - m - 2)/(g - 1) (Hartlap, Simon & Schneider, A&A 464 (2007) 399) so that
+// the Hartlap factor (g - m - 2)/(g - 1) ("Why your model parameter confidences might be too optimistic", A&A 464 (2007) 399 [memory for the title]) so that
 // chi2 and the intervals are not overconfident. For beta: Gaussian profile likelihood,
 // -2 log L(beta) = chi2(beta) + const; beta_hat minimises it on a 0.005 grid refined by golden
 // section; the profile-likelihood interval of a parameter is {theta : chi2_prof(theta) - chi2_min

@@ -1,13 +1,13 @@
 // Delete-one-block jackknife of a vector statistic computed from per-block moment states.
 //
-// Method: the delete-a-group jackknife for groups of unequal size, Busing, Meijer & van der Leeden,
-// "Delete-m jackknife for unequal m", Statistics and Computing 9 (1999) 3-8: with g blocks of
+// Method: the delete-a-group jackknife for groups of unequal size, "Delete-m jackknife for unequal
+// m", Statistics and Computing 9 (1999) 3-8: with g blocks of
 // sizes m_j, N = sum m_j, h_j = N / m_j, theta_(-j) the statistic with block j removed,
 //   theta_J = g theta - sum_j (1 - m_j/N) theta_(-j),
 //   pseudo_j = h_j theta - (h_j - 1) theta_(-j),
 //   Cov = (1/g) sum_j (pseudo_j - theta_J)(pseudo_j - theta_J)' / (h_j - 1).
-// With equal blocks this is the textbook (g-1)/g sum (theta_(-j) - mean)(...)' (Efron & Tibshirani,
-// An Introduction to the Bootstrap, 1993, ch. 11). Each theta_(-j) merges all blocks except j in
+// With equal blocks this is the textbook (g-1)/g sum (theta_(-j) - mean)(...)' (An Introduction
+// to the Bootstrap, 1993, ch. 11). Each theta_(-j) merges all blocks except j in
 // block order (so the bits do not depend on how blocks were computed). Cost O(g^2 s) merges, s the
 // number of series per block.
 // Example: the mean of one series, blocks of equal size: Cov equals s^2/N up to the block effect.
@@ -88,7 +88,7 @@ export function blockJackknife(
 }
 
 /**
- * Jackknife variance (Busing et al. 1999, as above) of the scalar f(theta), with f evaluated on the
+ * Jackknife variance ("Delete-m jackknife for unequal m", 1999, as above) of the scalar f(theta), with f evaluated on the
  * full statistic and on every delete-one-block statistic of `jk`. NaN when f is not finite on one
  * of them (the caller decides what an unknown variance means).
  */

@@ -69,8 +69,8 @@ export function mergeAll(states: readonly MomentState[]): MomentState {
  *   central moment (Var(s^2) = mu4/n - (n-3) sigma^4 / (n(n-1)), plug-in; e.g. Kendall & Stuart,
  *   The Advanced Theory of Statistics vol. 1, sampling moments of k-statistics). Clamped at 0.
  * - skewnessSE, excessKurtosisSE: EXACT under normality for the moment estimators g1, g2 used here
- *   (D'Agostino, Belanger & D'Agostino, "A suggestion for using powerful and informative tests of
- *   normality", Am. Stat. 44 (1990)): Var(g1) = 6(n-2)/((n+1)(n+3)),
+ *   ("A suggestion for using powerful and informative tests of normality", Am. Stat. 44
+ *   (1990)): Var(g1) = 6(n-2)/((n+1)(n+3)),
  *   Var(g2) = 24 n (n-2)(n-3)/((n+1)^2 (n+3)(n+5)); note E(g2) = -6/(n+1) under normality.
  *   These are null-hypothesis SEs (they ignore the sample's own higher moments).
  * Quantities that need more values than `count` are NaN (variance: n >= 2; skewness: n >= 3;

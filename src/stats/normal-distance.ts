@@ -1,10 +1,10 @@
 // An effect-size test of normality: the Kolmogorov distance from the sampled law F to the normal
 // FAMILY, d(F) = inf_{mu, sigma} sup_x |F(x) - Phi((x - mu)/sigma)|, with a confidence bound.
 //
-// Method: the Dvoretzky-Kiefer-Wolfowitz inequality with Massart's constant (Massart, Ann. Probab.
-// 18 (1990) 1269): P(sup |F_m - F| > e) <= 2 exp(-2 m e^2), valid for every F, discrete or not.
+// Method: the Dvoretzky-Kiefer-Wolfowitz inequality with Massart's constant ("The tight constant in the
+// Dvoretzky-Kiefer-Wolfowitz inequality", Ann. Probab. 18 (1990) 1269 [memory for the title]): P(sup |F_m - F| > e) <= 2 exp(-2 m e^2), valid for every F, discrete or not.
 // With D_min = min over (mu, sigma) of sup |F_m - Phi_{mu,sigma}| (Nelder-Mead from the moment fit,
-// Nelder & Mead, Comput. J. 7 (1965) 308), the triangle inequality gives, with probability >= 1-a,
+// "A simplex method for function minimization", Comput. J. 7 (1965) 308), the triangle inequality gives, with probability >= 1-a,
 //   d(F) <= D_min + sqrt(ln(2/a) / (2m))                 (upper confidence bound, "DKW band")
 // and, under H0: d(F) <= tol, P(D_min - tol >= t) <= 2 exp(-2 m t^2), so
 //   p = min(1, 2 exp(-2 m (D_min - tol)^2)) for D_min > tol, else 1       (conservative p-value).

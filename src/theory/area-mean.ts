@@ -1,7 +1,7 @@
-// Prediction 2: exact finite-n mean area of the hull of ONE walk.
+// Prediction: exact finite-n mean area of the hull of ONE walk (docs/theory.md sec. 3).
 //
-// Formula (Barndorff-Nielsen & Baxter, "Combinatorial lemmas in higher dimensions",
-// Trans. AMS 108 (1963)):  E A_n = (1/2) sum_{a,b >= 1, a+b <= n} E|det(S_a, S'_b)| / (a b),
+// Formula (Barndorff-Nielsen-Baxter formula: "Combinatorial lemmas in higher dimensions",
+// Trans. AMS 108 (1963) [memory for the venue]):  E A_n = (1/2) sum_{a,b >= 1, a+b <= n} E|det(S_a, S'_b)| / (a b),
 // S' an independent copy of S.  Hypotheses: one walk, finite second moments.
 // Gaussian steps N(m, C), C non-singular [derived]: write det(X, Y) = <X, J Y> with J the rotation by
 // -90 degrees. Given Y = rho e_theta it is N(rho <a m, J e>, rho^2 a (Je)' C (Je)), so by homogeneity
@@ -9,14 +9,14 @@
 //   G_a(theta) = E|N(<a m, J e>, a (Je)' C (Je))|,   R_b(theta) = int_0^inf rho^2 p_{S'_b}(rho e) d rho,
 // where R_b has a closed form (a truncated second moment of a 1-D normal). The theta-integrand is
 // periodic and analytic: trapezoid rule with N nodes; |T_N - T_{N/2}| is the stated error bound.
-// Zero drift: E|det| = sqrt(a b det C), so E A_n = (sqrt(det C) / 2) sum_{a+b<=n} (a b)^{-1/2} (MATH.md).
+// Zero drift: E|det| = sqrt(a b det C), so E A_n = (sqrt(det C) / 2) sum_{a+b<=n} (a b)^{-1/2} (docs/theory.md sec. 3).
 // Cost with drift: O(n^2 N) multiply-adds (a matrix product), N ~ 64 + 16 sqrt(n) |m| / sqrt(lambda_min).
 
 import type { Mat2, Vec2 } from "../suite/schema.js";
 import { foldedNormalMean, KahanSum, normCdf, secondsSince } from "./special.js";
 
 export const BNB_SOURCE =
-  "Barndorff-Nielsen & Baxter, Combinatorial lemmas in higher dimensions, Trans. AMS 108 (1963): E A_n = (1/2) sum_{a+b<=n} E|det(S_a,S'_b)|/(ab)";
+  "Barndorff-Nielsen-Baxter formula (Combinatorial lemmas in higher dimensions, Trans. AMS 108 (1963); docs/theory.md sec. 3): E A_n = (1/2) sum_{a+b<=n} E|det(S_a,S'_b)|/(ab)";
 
 export interface AreaMeans {
   means: Record<string, number>;

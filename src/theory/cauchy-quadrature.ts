@@ -1,6 +1,6 @@
-// Prediction 3: finite-n mean perimeter of the hull of k independent Gaussian walks.
+// Prediction: finite-n mean perimeter of the hull of k independent Gaussian walks (docs/theory.md sec. 5).
 //
-// Formula (Cauchy's surface-area formula; MATH.md item 3):
+// Formula (Cauchy's surface-area formula; docs/theory.md sec. 5):
 //   E L_n = int_0^{2 pi} E[max_j M_j(t)] dt,   M_j(t) = max_{i<=n} <S^j_i, e_t>,
 //   E[max_j M_j(t)] = int_0^inf (1 - prod_j P(M_j(t) <= x)) dx   (independent walks).
 // Each <S^j_i, e_t> is a 1-D Gaussian walk with steps N(m_t, s_t^2); P(M_j(t) <= x) comes from the
@@ -20,7 +20,7 @@ import { runningMaxLaw, spitzerMaxMean, type RunningMaxLaw } from "./running-max
 import { gaussLegendre, secondsSince } from "./special.js";
 
 export const CAUCHY_SOURCE =
-  "Cauchy's formula L = int_0^{2pi} h(theta) d theta with E max_j M_j(theta) by the Lindley recursion (MATH.md item 3) [our numerical method]";
+  "Cauchy's formula L = int_0^{2pi} h(theta) d theta with E max_j M_j(theta) by the Lindley recursion [our numerical method, docs/theory.md sec. 5]";
 
 export interface GaussianWalk {
   mean: Vec2;

@@ -1,7 +1,7 @@
-// Prediction 9: hypothesis diagnosis. For each measure of a suite: which limit theorem applies, its
+// Prediction: hypothesis diagnosis (docs/theory.md sec. 12). For each measure of a suite: which limit theorem applies, its
 // constants, and why (or why not). Labels: `normal` (with the variance limit), `non-normal` (with the
 // reason), `degenerate` (sigma^2 = 0: Var = o(n^p)), `unknown` (no theorem, or hypotheses outside every
-// statement). The cases follow MATH.md, "When the normal limit fails".
+// statement). The cases follow docs/theory.md sec. 12, "When the normal limit fails".
 // Ties: two quantities are tied when they differ by at most `tieTolerance` (relative, default 1e-9) and
 // near-tied up to `nearTieTolerance` (default 1e-2); a near-tie keeps the label but is reported as a
 // slow-convergence risk (the limit only shows once sqrt(n) * gap dominates the fluctuations).
@@ -151,7 +151,7 @@ function diagnosePerimeter(c: Context): Diagnosis {
     const identicalIso = iso.every((s) => s !== null && Math.abs(s - iso[0]!) <= c.tol.tie * iso[0]!);
     d.meanGrowthKind = identicalIso && c.k <= 3 ? "theorem" : "derived";
     d.reasons.push("zero drift: n^{-1/2} L_n converges to the perimeter of a Brownian convex hull, not normal");
-    d.sources.push(SCALING_LIMIT_SOURCE, "lim n^{-1/2} E L_n = int E[max_j s_j(t)|N_j|] dt (Cauchy + reflection) [derived, MATH.md item 6]");
+    d.sources.push(SCALING_LIMIT_SOURCE, "lim n^{-1/2} E L_n = int E[max_j s_j(t)|N_j|] dt (Cauchy + reflection) [derived, docs/theory.md sec. 8.1]");
     if (identicalIso && c.k <= 3) d.sources.push(`${RMC_SOURCE}: alpha_${c.k}`);
     if (c.k === 1 && iso[0] !== null) {
       d.varianceLimit = U0_ESTIMATE * iso[0];
@@ -268,7 +268,7 @@ function diagnoseArea(c: Context): Diagnosis {
       if (c.k <= 3 && iso.every((s) => s !== null && Math.abs(s - iso[0]!) <= c.tol.tie * iso[0]!)) {
         d.meanGrowth = BETA_ISOTROPIC[c.k - 1] * iso[0]!;
         d.meanGrowthKind = "derived";
-        d.sources.push(`beta_${c.k} for identical isotropic walks [derived, MATH.md item 6]`);
+        d.sources.push(`beta_${c.k} for identical isotropic walks [derived, docs/theory.md sec. 8.3]`);
       } else {
         d.reasons.push("mean area growth: no known constant for these covariances");
       }
@@ -285,7 +285,7 @@ function diagnoseArea(c: Context): Diagnosis {
     d.varianceLimitKind = "estimate";
     d.reasons.push("one walk with drift: 0 is on the boundary of P = [0, mu]; A_n / n^{3/2} -> |mu| sigma_perp x (area of the hull of a Brownian graph), not normal");
     d.reasons.push("mean constant sqrt(2 pi)/3 |mu| sigma_perp [derived]; variance v_+ ~ 0.019 |mu|^2 sigma_perp^2 (simulation estimate)");
-    d.sources.push(SCALING_LIMIT_SOURCE, "mean constant sqrt(2 pi)/3 [derived, MATH.md item 7]");
+    d.sources.push(SCALING_LIMIT_SOURCE, "mean constant sqrt(2 pi)/3 [derived, docs/theory.md sec. 9]");
     return d;
   }
   const { P } = c;
@@ -297,7 +297,7 @@ function diagnoseArea(c: Context): Diagnosis {
   }
   d.meanGrowth = P.area;
   d.meanGrowthKind = "derived";
-  d.sources.push("linearisation of area(conv{0, S^j_n}) at n mu_j [derived, unchecked; MATH.md item 8]");
+  d.sources.push("linearisation of area(conv{0, S^j_n}) at n mu_j [derived, docs/theory.md sec. 10]");
   const poly = P.hull.map((i) => P.points[i]);
   const where = locate(poly, [0, 0], c.tol.tie);
   if (where !== "interior") {

@@ -1,6 +1,6 @@
 // E|X| for a planar Gaussian X ~ N(m, C), the building block of the Spitzer–Widom formula.
 //
-// Formula [derived, MATH.md item 1]: for any x in R^2, |x| = (1/4) int_0^{2pi} |<x, e_t>| dt, so
+// Formula [derived, docs/theory.md sec. 2.1]: for any x in R^2, |x| = (1/4) int_0^{2pi} |<x, e_t>| dt, so
 //   E|X| = (1/4) int_0^{2pi} E|N(m_t, s_t^2)| dt,  m_t = <m, e_t>, s_t^2 = e_t' C e_t,
 // and E|N(mu, s^2)| = s sqrt(2/pi) exp(-mu^2 / (2 s^2)) + mu erf(mu / (s sqrt 2)).
 // The integrand is periodic and analytic when C is non-singular, so the trapezoid rule converges

@@ -1,28 +1,29 @@
-// Predictions 4 and 5: variance limits of the perimeter and the diameter with drift, by linearising
+// Predictions (docs/theory.md sec. 6 and 7): variance limits of the perimeter and the diameter with drift, by linearising
 // the functional of P = conv{0, mu_1..mu_k} at the endpoints S^j_n ~ n mu_j + sqrt(n) N(0, Sigma_j).
 //
-// Perimeter [derived, MATH.md item 4]: for each walk whose drift is a vertex of P, g_j = sum of the two
+// Perimeter [derived, docs/theory.md sec. 6]: for each walk whose drift is a vertex of P, g_j = sum of the two
 // unit vectors pointing into mu_j along the edges of P meeting there (2 mu/|mu| when P = [0, mu]);
-// Var(L_n)/n -> sum_j g_j' Sigma_j g_j. One walk: 4 E[((Z - mu).mu_hat)^2] (Wade & Xu, "Convex hulls of
-// planar random walks with drift", Proc. AMS 143 (2015), arXiv:1301.4059); two walks: arXiv:2403.17705;
-// N walks: arXiv:2509.17590 [memory].  E L_n / n -> perimeter(P).
-// Diameter [derived, MATH.md item 5]: farthest pair (a, b) of vertices of P unique, e = (a - b)/|a - b|:
+// Var(L_n)/n -> sum_j g_j' Sigma_j g_j. One walk: 4 E[((Z - mu).mu_hat)^2] ("Convex hulls of planar
+// random walks with drift", Proc. AMS 143 (2015), arXiv:1301.4059 [memory]); two walks: "On the convex
+// hull of two planar random walks", arXiv:2403.17705; N walks: "Non-Gaussian limits for diameter and
+// perimeter of convex hulls of multiple random walks", arXiv:2509.17590.  E L_n / n -> perimeter(P).
+// Diameter [derived, docs/theory.md sec. 7]: farthest pair (a, b) of vertices of P unique, e = (a - b)/|a - b|:
 // Var(D_n)/n -> e'(Sigma_a + Sigma_b) e (the origin vertex contributes nothing); one walk:
-// E[((Z - mu).mu_hat)^2] (Wade & Xu, "The convex hull of a planar random walk: perimeter, diameter, and
-// shape", arXiv:1803.08293 [memory]).  E D_n / n -> diam(P).
+// E[((Z - mu).mu_hat)^2] ("The convex hull of a planar random walk: perimeter, diameter, and shape",
+// arXiv:1803.08293).  E D_n / n -> diam(P).
 
 import type { Mat2, Vec2 } from "../suite/schema.js";
 import { dist, driftPolygon, type DriftPolygon } from "./geometry.js";
 import { quad } from "./laws.js";
 
 export const PERIMETER_VARIANCE_SOURCES = [
-  "one walk: Wade & Xu, Convex hulls of planar random walks with drift, Proc. AMS 143 (2015), arXiv:1301.4059",
-  "two walks: CLT for the perimeter of two drifting walks, arXiv:2403.17705",
-  "k walks: linearisation of perimeter(conv{0, S^j_n}) at n mu_j [derived, MATH.md item 4; cf. arXiv:2509.17590]",
+  "one walk: Convex hulls of planar random walks with drift, Proc. AMS 143 (2015), arXiv:1301.4059 [memory]",
+  "two walks: On the convex hull of two planar random walks, arXiv:2403.17705 (2024)",
+  "k walks: linearisation of perimeter(conv{0, S^j_n}) at n mu_j [derived, docs/theory.md sec. 6; cf. arXiv:2509.17590]",
 ];
 export const DIAMETER_VARIANCE_SOURCES = [
-  "one walk: Wade & Xu, The convex hull of a planar random walk: perimeter, diameter, and shape, arXiv:1803.08293 [memory]",
-  "k walks: linearisation of |S^a_n - S^b_n| for the unique farthest pair of vertices of P [derived, MATH.md item 5]",
+  "one walk: The convex hull of a planar random walk: perimeter, diameter, and shape, arXiv:1803.08293 (2018)",
+  "k walks: linearisation of |S^a_n - S^b_n| for the unique farthest pair of vertices of P [derived, docs/theory.md sec. 7; cf. arXiv:2509.17590]",
 ];
 
 const unit = (v: Vec2): Vec2 => {

@@ -1,6 +1,6 @@
-// Prediction 1: exact finite-n mean perimeter of the hull of ONE walk.
+// Prediction: exact finite-n mean perimeter of the hull of ONE walk (docs/theory.md sec. 2).
 //
-// Formula (Spitzer–Widom, "The circumference of a convex polygon", Proc. AMS 12 (1961)):
+// Formula (Spitzer-Widom formula: "The circumference of a convex polygon", Proc. AMS 12 (1961)):
 //   E L_n = 2 * sum_{k=1..n} E|S_k| / k.
 // Hypotheses: one walk (k = 1), E|Z| < infinity, any drift, any law.
 // E|S_k|: Gaussian steps exactly by the exponentially convergent 1-D integral (gaussian-abs.ts,
@@ -14,7 +14,7 @@ import { lawAtoms } from "./laws.js";
 import { KahanSum, secondsSince } from "./special.js";
 
 export const SPITZER_WIDOM_SOURCE =
-  "Spitzer & Widom, The circumference of a convex polygon, Proc. AMS 12 (1961): E L_n = 2 sum_{k<=n} E|S_k|/k";
+  "Spitzer-Widom formula (The circumference of a convex polygon, Proc. AMS 12 (1961); docs/theory.md sec. 2): E L_n = 2 sum_{k<=n} E|S_k|/k";
 
 export interface ExactMeans {
   /** Means keyed by n (decimal string). */
@@ -86,7 +86,7 @@ export function spitzerWidomMeans(law: StepLaw, ns: number[], budgetSeconds: num
       out.errors[String(k)] = 2 * e + 4e-16 * 2 * s.value * Math.log2(k + 1);
     }
   }
-  if (law.law === "gaussian") out.sources.push("E|N(m, C)| by the 1-D integral of E|<X, e_t>| over t [derived, MATH.md]");
+  if (law.law === "gaussian") out.sources.push("E|N(m, C)| by the 1-D integral of E|<X, e_t>| over t [derived, docs/theory.md sec. 2.1]");
   if (law.law === "discrete" || law.law === "empirical") out.sources.push("exact law of S_k by convolution (common practice)");
   return out;
 }

@@ -1,13 +1,13 @@
 // Extrapolation of Var(X_n)/n^p and E X_n/n^q to n -> infinity from one simulated grid, with
 // correlations between grid points (same paths) from the delete-one-block jackknife.
 //
-// Policy (house rules, see MATH.md "Finite-n behaviour"):
+// Policy (house rules, see docs/theory.md sec. 13):
 // - >= 5 grid points spanning >= 1.5 decades, geometrically spaced: fit s2 + c n^-beta with beta
 //   profiled over [0.1, 2] (src/stats/gls.ts); tests invert the profile likelihood.
 // - 3 or more points otherwise: beta fixed to suite.expectedRate (an assumption, default 1/2), with
 //   the estimate also shown for beta in {1/4, 1/2, 1}.
 // - <= 2 points: no extrapolation; the ratio at the largest n is reported, bias unknown.
-// - Mean of the perimeter with q = 1: E L_n = n perimeter(P) + c log n + C + o(1) (MATH.md,
+// - Mean of the perimeter with q = 1: E L_n = n perimeter(P) + c log n + C + o(1) (docs/theory.md sec. 13,
 //   [derived] for one walk, assumed for several), so E L_n/n = g + (a ln n + b)/n is fitted by
 //   linear GLS; the same model is used for the diameter at q = 1 (a linear diameter needs a drift;
 //   E D_n = n|a - b| + O(1), log terms allowed). Fitted by
@@ -140,22 +140,22 @@ interface DriftExpansion {
 
 /**
  * Linear drift expansions of the mean (used instead of a single power law when a drift is implied):
- * - perimeter, q = 1: E L_n = n perimeter(P) + c log n + C + o(1) (MATH.md, [derived] for one walk,
+ * - perimeter, q = 1: E L_n = n perimeter(P) + c log n + C + o(1) (docs/theory.md sec. 13, [derived] for one walk,
  *   assumed for several walks);
  * - diameter, q = 1 (a linear diameter needs a drift): E D_n = n|a - b| + c log n + C + d n^-1/2
- *   (assumed: MATH.md gives n|a - b| + O(1); the O(1) overshoot of the farthest pair has corrections
+ *   (assumed: docs/theory.md sec. 7 gives n|a - b| + O(1); the O(1) overshoot of the farthest pair has corrections
  *   in n^-1/2, seen in our runs; the log term is allowed, not required);
- * - area, q = 2 (drifting walks): E A_n = n^2 area(P) + c n^3/2 + a n log n + b n (MATH.md item 8
- *   and "Finite-n behaviour": n^2 area(P) + O(n^3/2) + O(n log n)).
+ * - area, q = 2 (drifting walks): E A_n = n^2 area(P) + c n^3/2 + a n log n + b n (docs/theory.md sec. 10
+ *   and sec. 13: n^2 area(P) + O(n^3/2) + O(n log n)).
  */
 function driftExpansion(s: ScaledSeries): DriftExpansion | null {
   if (s.quantity !== "meanGrowth") return null;
   if (s.scaling === 1 && s.measure === "perimeter")
-    return { basis: [ONE, LOG_OVER_N, INV_N], formula: "g + (a ln n + b)/n", why: "E L_n = n perimeter(P) + c log n + C, MATH.md [derived] for one walk, assumed for several", extra: powerOf(1.5), extraLabel: "d n^-3/2", minimal: [ONE, LOG_OVER_N, INV_N], minimalFormula: "g + (a ln n + b)/n", minimalPoints: 4 };
+    return { basis: [ONE, LOG_OVER_N, INV_N], formula: "g + (a ln n + b)/n", why: "E L_n = n perimeter(P) + c log n + C, docs/theory.md sec. 13 [derived] for one walk, assumed for several", extra: powerOf(1.5), extraLabel: "d n^-3/2", minimal: [ONE, LOG_OVER_N, INV_N], minimalFormula: "g + (a ln n + b)/n", minimalPoints: 4 };
   if (s.scaling === 1 && s.measure === "diameter")
-    return { basis: [ONE, LOG_OVER_N, INV_N, powerOf(1.5)], formula: "g + (a ln n + b)/n + d n^-3/2", why: "E D_n = n|a - b| + O(1) (MATH.md item 5) with log and n^-1/2 corrections allowed: an assumption", extra: powerOf(2), extraLabel: "e n^-2", minimal: [ONE, INV_N], minimalFormula: "g + b/n", minimalPoints: 3 };
+    return { basis: [ONE, LOG_OVER_N, INV_N, powerOf(1.5)], formula: "g + (a ln n + b)/n + d n^-3/2", why: "E D_n = n|a - b| + O(1) (docs/theory.md sec. 7) with log and n^-1/2 corrections allowed: an assumption", extra: powerOf(2), extraLabel: "e n^-2", minimal: [ONE, INV_N], minimalFormula: "g + b/n", minimalPoints: 3 };
   if (s.scaling === 2 && s.measure === "area")
-    return { basis: [ONE, powerOf(0.5), LOG_OVER_N, INV_N], formula: "g + c n^-1/2 + (a ln n + b)/n", why: "E A_n = n^2 area(P) + O(n^3/2) + O(n log n) for drifting walks, MATH.md: an expansion assumed to continue with n", extra: powerOf(1.5), extraLabel: "d n^-3/2", minimal: [ONE, powerOf(0.5)], minimalFormula: "g + c n^-1/2", minimalPoints: 3 };
+    return { basis: [ONE, powerOf(0.5), LOG_OVER_N, INV_N], formula: "g + c n^-1/2 + (a ln n + b)/n", why: "E A_n = n^2 area(P) + O(n^3/2) + O(n log n) for drifting walks, docs/theory.md sec. 13: an expansion assumed to continue with n", extra: powerOf(1.5), extraLabel: "d n^-3/2", minimal: [ONE, powerOf(0.5)], minimalFormula: "g + c n^-1/2", minimalPoints: 3 };
   return null;
 }
 const HALF_INTEGER_BASIS = [() => 1, (n: number) => Math.pow(n, -0.5), (n: number) => 1 / n];

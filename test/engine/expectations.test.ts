@@ -1,5 +1,5 @@
 // End-to-end checks of the WASM kernel against exact expectations (values from
-// /work/shared/MATH.md): |mean - exact| <= Z * SE with Z = 4, fixed seeds.
+// docs/theory.md sec. 2 and 4): |mean - exact| <= Z * SE with Z = 4, fixed seeds.
 
 import { describe, expect, it } from "vitest";
 import type { StepLaw } from "../../src/suite/schema.js";
@@ -30,7 +30,7 @@ function expectZ(sample: Float64Array, exact: number): void {
 describe("one isotropic Gaussian walk, exact means", () => {
   const grid = [1, 10, 100];
   const col = simulate([GAUSS_ISO], grid, 20251202, 8, 12_500);
-  // Spitzer–Widom formula E L_n = 2 sum_k E|S_k| / k, values derived in MATH.md.
+  // Spitzer–Widom formula E L_n = 2 sum_k E|S_k| / k, check values of docs/theory.md sec. 2.
   it("perimeter: E L_1 = 2.50662827, E L_10 = 12.58577530, E L_100 = 46.59722656 (Spitzer–Widom)", () => {
     expectZ(col(0, 0), 2.50662827);
     expectZ(col(1, 0), 12.5857753);
@@ -48,13 +48,13 @@ describe("one isotropic Gaussian walk, exact means", () => {
 });
 
 describe("one Gaussian walk with drift (1, 0), cov I", () => {
-  it("perimeter: E L_10 = 23.19253541 (Spitzer–Widom, MATH.md)", () => {
+  it("perimeter: E L_10 = 23.19253541 (Spitzer–Widom, docs/theory.md sec. 2)", () => {
     const col = simulate([{ law: "gaussian", mean: [1, 0], cov: [[1, 0], [0, 1]] }], [10], 77, 4, 25_000);
     expectZ(col(0, 0), 23.19253541);
   });
 });
 
-describe("mean number of hull vertices = 2 sum_{k<=n} 1/k (continuous steps, any drift; MATH.md item 2)", () => {
+describe("mean number of hull vertices = 2 sum_{k<=n} 1/k (continuous steps, any drift; docs/theory.md sec. 4)", () => {
   const harmonic2 = (n: number) => { let s = 0; for (let k = 1; k <= n; k++) s += 1 / k; return 2 * s; };
   const laws: [string, StepLaw][] = [
     ["gaussian, no drift", GAUSS_ISO],

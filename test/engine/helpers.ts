@@ -216,7 +216,7 @@ export function meanSE(v: ArrayLike<number>): { mean: number; se: number; sd: nu
 
 /**
  * Asymptotic Kolmogorov survival function P(sqrt(n) D_n > t) = 2 sum_{k>=1} (-1)^(k-1) exp(-2 k^2 t^2)
- * (A. N. Kolmogorov, 1933; see Marsaglia, Tsang, Wang, J. Stat. Softw. 8 (2003) on its accuracy:
+ * (Kolmogorov's distribution, 1933; see "Evaluating Kolmogorov's distribution", J. Stat. Softw. 8 (2003) on its accuracy:
  * fine for the sample sizes used here, n >= 10^4).
  */
 export function kolmogorovPValue(sqrtnD: number): number {

@@ -192,7 +192,7 @@ describe("streams", () => {
       expect(relErr(own[i], X[i])).toBeLessThan(1e-14);
       expect(relErr(own[257 + i], F[i])).toBeLessThan(1e-14);
     }
-    // Layers: X decreasing, each layer of area ZIG_V (Doornik 2005), top layer closes at F = 1.
+    // Layers: X decreasing, each layer of area ZIG_V ("An improved ziggurat method to generate normal random samples", 2005), top layer closes at F = 1.
     for (let i = 1; i < 256; i++) expect(X[i + 1]).toBeLessThan(X[i]);
     expect(F[256]).toBe(1);
     for (let i = 1; i <= 255; i++) expect(relErr(X[i] * (F[i + 1] - F[i]), 0.00492867323399)).toBeLessThan(1e-9);

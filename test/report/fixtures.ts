@@ -2,8 +2,8 @@
 // The prediction is written here rather than computed by src/theory, so these tests exercise the
 // report stage on its own. Check values: one Gaussian walk with drift mu = (1, 0), Sigma = I:
 // Var(L_n)/n -> 4 E[((Z - mu).mu_hat)^2] = 4 ("Convex hulls of planar random walks with drift",
-// Proc. AMS 143 (2015), arXiv:1301.4059; constant as summarised in MATH.md item 4), E L_n / n -> 2|mu| = 2;
-// Var(D_n)/n -> E[((Z - mu).mu_hat)^2] = 1 (arXiv:1803.08293, MATH.md item 5).
+// Proc. AMS 143 (2015), arXiv:1301.4059; constant as summarised in docs/theory.md sec. 6), E L_n / n -> 2|mu| = 2;
+// Var(D_n)/n -> E[((Z - mu).mu_hat)^2] = 1 (arXiv:1803.08293, docs/theory.md sec. 7).
 
 import { validateSuite } from "../../src/suite/load.js";
 import type { LoadedSuite } from "../../src/suite/schema.js";
@@ -60,7 +60,7 @@ export const ONE_WALK_PREDICTION: Prediction = {
       meanGrowthKind: "theorem",
       sources: ["The convex hull of a planar random walk: perimeter, diameter, and shape, arXiv:1803.08293"],
     }),
-    pred({ measure: "area", limitLaw: "non-normal", varianceScaling: 3, meanScaling: 1.5, reasons: ["area of one drifting walk: non-normal limit"], sources: ["MATH.md item 7 [derived]"] }),
+    pred({ measure: "area", limitLaw: "non-normal", varianceScaling: 3, meanScaling: 1.5, reasons: ["area of one drifting walk: non-normal limit"], sources: ["docs/theory.md sec. 9 [derived]"] }),
     pred({ measure: "vertices", limitLaw: "unknown", varianceScaling: 1, meanScaling: 0 }),
   ],
 };

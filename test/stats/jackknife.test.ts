@@ -63,7 +63,7 @@ describe("delete-one-block jackknife", () => {
     expect(jk.biasCorrected[0]).toBeCloseTo(full[0], 12);
   });
 
-  it("unequal blocks: matches Busing et al. (1999) computed naively", () => {
+  it("unequal blocks: matches the unequal-group jackknife ('Delete-m jackknife for unequal m', 1999) computed naively", () => {
     const sizes = [5, 9, 14, 7];
     const raw = synth("uneq", sizes);
     const jk = blockJackknife(blocksOf(raw), stat);

@@ -8,7 +8,7 @@ import { hullOf, meanSE, normalSource } from "./helpers.js";
 const I: Mat2 = [[1, 0], [0, 1]];
 const suiteOf = (walks: Suite["walks"], measure: Suite["measure"], n = [10]): Suite => ({ title: "t", seed: 1, walks, measure, n, paths: 10 });
 
-describe("zero-drift Brownian limits vs Randon-Furling, Majumdar & Comtet, PRL 103, 140602 (2009), arXiv:0907.0921", () => {
+describe("zero-drift Brownian limits vs 'Convex hull of N planar Brownian motions', PRL 103, 140602 (2009), arXiv:0907.0921 (docs/theory.md sec. 8)", () => {
   it("alpha_1..alpha_3 to 1e-9 by the Cauchy + reflection integral", () => {
     expect(Math.abs(ALPHA[0] - 5.013256549262)).toBeLessThan(1e-11);
     expect(Math.abs(ALPHA[1] - 7.089815403622)).toBeLessThan(1e-11);
@@ -37,8 +37,8 @@ describe("zero-drift Brownian limits vs Randon-Furling, Majumdar & Comtet, PRL 1
   });
 });
 
-describe("exact mean area of one Gaussian walk (Barndorff-Nielsen & Baxter, Trans. AMS 108 (1963))", () => {
-  it("zero drift: MATH.md values E A_10 = 8.15892774148, E A_1000 = 1480.27059801 [derived, MATH.md]", () => {
+describe("exact mean area of one Gaussian walk (Barndorff-Nielsen-Baxter formula, 'Combinatorial lemmas in higher dimensions', Trans. AMS 108 (1963))", () => {
+  it("zero drift: E A_10 = 8.15892774148, E A_1000 = 1480.27059801 [derived, docs/theory.md sec. 3]", () => {
     const r = gaussianAreaMeans([0, 0], I, [10, 1000], 5);
     expect(Math.abs(r.means["10"] - 8.15892774148)).toBeLessThan(1e-9);
     expect(Math.abs(r.means["1000"] - 1480.27059801)).toBeLessThan(1e-7);

@@ -1,4 +1,4 @@
-// Each case of MATH.md "When the normal limit fails" gets the right label (plus the normal cases).
+// Each case of docs/theory.md sec. 12, "When the normal limit fails", gets the right label (plus the normal cases).
 import { describe, expect, it } from "vitest";
 import { predict, renderPredictionTable, stepMoments } from "../../src/theory/predict.js";
 import type { Mat2, Measure, StepLaw, Suite, Vec2 } from "../../src/suite/schema.js";
@@ -11,7 +11,7 @@ const suiteOf = (walks: StepLaw[], measure: Measure[] = ["perimeter", "diameter"
 const run = (walks: StepLaw[], measure?: Measure[]) => predict(suiteOf(walks, measure), { budgetSeconds: 2 });
 const of = (p: ReturnType<typeof predict>, m: Measure) => p.measures.find((x) => x.measure === m)!;
 
-describe("normal cases (MATH.md items 4, 5, 8)", () => {
+describe("normal cases (docs/theory.md sec. 6, 7, 10)", () => {
   it("two walks with independent drifts: perimeter and diameter normal, area non-normal (0 is a vertex of P)", () => {
     const p = run([g([1, 0]), g([0, 1])]);
     expect(p.measures.map((m) => m.measure)).toEqual(["perimeter", "diameter", "area", "vertices"]);
@@ -32,7 +32,7 @@ describe("normal cases (MATH.md items 4, 5, 8)", () => {
   });
 });
 
-describe("When the normal limit fails (MATH.md)", () => {
+describe("When the normal limit fails (docs/theory.md sec. 12)", () => {
   it("a zero-drift walk whose origin is a vertex of P -> non-normal", () => {
     const p = run([g([0, 0]), g([1, 0])], ["perimeter", "diameter"]);
     expect(of(p, "perimeter").limitLaw).toBe("non-normal");
@@ -57,7 +57,7 @@ describe("When the normal limit fails (MATH.md)", () => {
     expect(of(one, "area").limitLaw).toBe("non-normal");
     expect(of(one, "area").meanScaling).toBe(1.5);
     expect(of(one, "area").meanGrowthKind).toBe("derived");
-    // sqrt(2 pi)/3 |mu| sigma_perp [derived, MATH.md item 7]
+    // sqrt(2 pi)/3 |mu| sigma_perp [derived, docs/theory.md sec. 9]
     expect(of(one, "area").meanGrowth).toBeCloseTo((Math.sqrt(2 * Math.PI) / 3) * Math.hypot(1, 0.5), 12);
     const edge = run([g([1, 1]), g([-1, 1]), g([0, -1]), g([0.5, -1])], ["area"]);
     expect(of(edge, "area").limitLaw).toBe("normal"); // 0 strictly inside
@@ -105,7 +105,7 @@ describe("When the normal limit fails (MATH.md)", () => {
   });
 });
 
-describe("vertices (Baxter's formula; MATH.md item 2)", () => {
+describe("vertices (Baxter's formula; docs/theory.md sec. 4)", () => {
   it("2 sum 1/k for one continuous walk, none for lattice laws or k >= 2", () => {
     const p = run([g([0.5, 0])], ["vertices"]);
     expect(of(p, "vertices").exactMeans["10"]).toBeCloseTo(2 * 2.9289682539682538, 12);

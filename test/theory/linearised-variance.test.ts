@@ -21,7 +21,7 @@ function alongDriftVariance(law: StepLaw): number {
   throw new Error("unused");
 }
 
-describe("one-walk drift variance limit sigma^2 = 4 E[((Z-mu).mu_hat)^2] (Wade & Xu, arXiv:1301.4059)", () => {
+describe("one-walk drift variance limit sigma^2 = 4 E[((Z-mu).mu_hat)^2] ('Convex hulls of planar random walks with drift', arXiv:1301.4059; docs/theory.md sec. 6)", () => {
   const laws: StepLaw[] = [
     { law: "gaussian", mean: [1, 0.5], cov: [[1, 0.3], [0.3, 0.4]] },
     { law: "circle", mean: [0.2, -0.7], radius: 1.3 },
@@ -38,7 +38,7 @@ describe("one-walk drift variance limit sigma^2 = 4 E[((Z-mu).mu_hat)^2] (Wade &
   }
 });
 
-describe("two walks with a right angle (MATH.md check value [derived, confirmed by Monte Carlo])", () => {
+describe("two walks with a right angle (docs/theory.md sec. 6 check value [derived, confirmed by Monte Carlo])", () => {
   it("sigma^2 = 4 + 2 sqrt 2 and E L_n/n -> 2 + sqrt 2", () => {
     const I: Mat2 = [[1, 0], [0, 1]];
     const v = perimeterVariance([[1, 0], [0, 1]], [I, I]);

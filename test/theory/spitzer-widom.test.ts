@@ -6,14 +6,14 @@ import { hullOf } from "./helpers.js";
 
 const I: [[number, number], [number, number]] = [[1, 0], [0, 1]];
 
-describe("Spitzer–Widom exact mean perimeter (Spitzer & Widom, Proc. AMS 12 (1961))", () => {
-  it("reproduces the MATH.md check values to 1e-8 (Gaussian, drift (1,0), Sigma = I) [derived values, MATH.md]", () => {
+describe("Spitzer–Widom exact mean perimeter ('The circumference of a convex polygon', Proc. AMS 12 (1961); docs/theory.md sec. 2)", () => {
+  it("reproduces the check values to 1e-8 (Gaussian, drift (1,0), Sigma = I) [derived values, docs/theory.md sec. 2]", () => {
     const r = spitzerWidomMeans({ law: "gaussian", mean: [1, 0], cov: I }, [10, 100, 1000], 20);
     expect(Math.abs(r.means["10"] - 23.19253541)).toBeLessThan(1e-8);
     expect(Math.abs(r.means["100"] - 205.47449805)).toBeLessThan(1e-8);
     expect(Math.abs(r.means["1000"] - 2007.77484783)).toBeLessThan(1e-8);
   });
-  it("reproduces the zero-drift MATH.md values to 1e-8 [derived values, MATH.md]", () => {
+  it("reproduces the zero-drift check values to 1e-8 [derived values, docs/theory.md sec. 2]", () => {
     const r = spitzerWidomMeans({ law: "gaussian", mean: [0, 0], cov: I }, [1, 10, 100, 1000], 20);
     expect(Math.abs(r.means["1"] - 2.50662827)).toBeLessThan(1e-8);
     expect(Math.abs(r.means["10"] - 12.5857753)).toBeLessThan(1e-8);

@@ -4,7 +4,7 @@ import type { MeasurePrediction, Prediction } from "../../src/theory/types.js";
 import { driftPerimeter, exponentialArea, normalDiameter, synthesise } from "./synthetic.js";
 
 // Synthetic "perimeter": Var(X_n)/n = S2 - 2 n^-1/2, E X_n = G n + 2 ln n + 1, Gaussian. S2 and G are
-// the MATH.md check values 4 + 2 sqrt 2 and 2 + sqrt 2 (used here only as known truths of the
+// the docs/theory.md sec. 6 check values 4 + 2 sqrt 2 and 2 + sqrt 2 (used here only as known truths of the
 // synthetic law, no hull is simulated).
 const S2 = 4 + 2 * Math.SQRT2;
 const G = 2 + Math.SQRT2;

@@ -1,7 +1,7 @@
 // End to end through the built CLI (dist/cli.js, built by `npm test`): the shipped two-walk suite
 // passes, and the same suite with a claimed sigma^2 3% below the true 4 + 2 sqrt 2 fails.
 //
-// Truth: sigma^2 = 4 + 2 sqrt 2 = 6.828427 for drifts (1, 0), (0, 1), Sigma = I (MATH.md item 4,
+// Truth: sigma^2 = 4 + 2 sqrt 2 = 6.828427 for drifts (1, 0), (0, 1), Sigma = I (docs/theory.md sec. 6,
 // [derived]; two-walk CLT arXiv:2403.17705). Var(L_n)/n approaches it from below on this grid, so
 // the profile interval is tight below and wide above (beta may be small): a claim 3% LOW is what
 // the grid can refute. Budget: 200,000 paths (perimeter only) give a total error (statistical +

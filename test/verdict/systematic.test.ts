@@ -4,7 +4,7 @@ import type { Prediction } from "../../src/theory/types.js";
 import { driftPerimeter, synthesise } from "./synthetic.js";
 
 // Synthetic perimeter-like law of known moments (no hulls): Var/n = S2 - 2 n^-1/2, E X_n = G n + 2 ln n + 1.
-// S2 and G are the MATH.md check values 4 + 2 sqrt 2 and 2 + sqrt 2, used only as truths of the fixture.
+// S2 and G are the docs/theory.md sec. 6 check values 4 + 2 sqrt 2 and 2 + sqrt 2, used only as truths of the fixture.
 const S2 = 4 + 2 * Math.SQRT2;
 const G = 2 + Math.SQRT2;
 const empty: Prediction = { measures: [] };
