@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # A real test of the README's Slurm recipe on this machine: starts munge + slurmctld + slurmd on
-# localhost with a minimal config, submits a 4-task job array of a small suite (one shard per
-# task), a merge job with --dependency=afterok, and compares the merged results with one run.
+# localhost with a minimal config, submits a 4-task job array of a small suite (one part per
+# task), a combine job with --dependency=afterok, and compares the combined results with one run.
 # Exit 0: same bits; 1: mismatch or a failed job; 77: skipped (says why on a SKIPPED line).
 set -u
 ROOT=$(cd "$(dirname "$0")/.." && pwd)
@@ -78,7 +78,7 @@ for _ in $(seq 1 100); do
 done
 [ "$state" = "idle" ] || skip "slurm node did not become idle (state '$state'; logs in $T/log)"
 
-# The recipe from the README: an array of N shards, then a merge job after all of them succeed.
+# The recipe from the README: an array of N parts, then a combine job after all of them succeed.
 cat > "$T/work/suite.json" <<'EOF'
 { "title": "slurm recipe check: two drifting walks", "seed": 8086,
   "walks": [ { "law": "gaussian", "mean": [1, 0], "cov": [[1, 0], [0, 1]] },
@@ -87,36 +87,36 @@ cat > "$T/work/suite.json" <<'EOF'
 EOF
 N=4
 cd "$T/work"
-cat > shards.sbatch <<EOF
+cat > parts.sbatch <<EOF
 #!/bin/bash
-#SBATCH --job-name=walkhull-shards
+#SBATCH --job-name=walkhull-parts
 #SBATCH --array=0-$((N - 1))
 #SBATCH --cpus-per-task=1
-#SBATCH --output=$T/work/shard-%a.log
-node "$CLI" run "$T/work/suite.json" --shard \$SLURM_ARRAY_TASK_ID/$N --workers 1 --quiet --out "$T/work/shard-\$SLURM_ARRAY_TASK_ID.json"
+#SBATCH --output=$T/work/part-%a.log
+node "$CLI" run "$T/work/suite.json" --part \$SLURM_ARRAY_TASK_ID --parts $N --workers 1 --quiet --out "$T/work/part-\$SLURM_ARRAY_TASK_ID.json"
 EOF
-ARRAY=$(sbatch --parsable shards.sbatch) || { echo "sbatch of the array failed"; exit 1; }
+ARRAY=$(sbatch --parsable parts.sbatch) || { echo "sbatch of the array failed"; exit 1; }
 ARRAY=${ARRAY%%;*}
-SHARDS=$(for i in $(seq 0 $((N - 1))); do printf '%s ' "$T/work/shard-$i.json"; done)
-MERGE=$(sbatch --parsable --dependency=afterok:"$ARRAY" --job-name=walkhull-merge --output="$T/work/merge.log" \
-  --wrap="node '$CLI' merge $SHARDS --no-checks --out '$T/work/merged.json'") || { echo "sbatch of the merge failed"; exit 1; }
-MERGE=${MERGE%%;*}
-echo "submitted array $ARRAY ($N tasks) and merge $MERGE (afterok)"
+PARTS=$(for i in $(seq 0 $((N - 1))); do printf '%s ' "$T/work/part-$i.json"; done)
+COMBINE=$(sbatch --parsable --dependency=afterok:"$ARRAY" --job-name=walkhull-combine --output="$T/work/combine.log" \
+  --wrap="node '$CLI' combine $PARTS --no-checks --out '$T/work/combined.json'") || { echo "sbatch of the combine job failed"; exit 1; }
+COMBINE=${COMBINE%%;*}
+echo "submitted array $ARRAY ($N tasks) and combine $COMBINE (afterok)"
 for _ in $(seq 1 600); do
-  [ -z "$(squeue -h -j "$ARRAY,$MERGE" 2>/dev/null)" ] && break
+  [ -z "$(squeue -h -j "$ARRAY,$COMBINE" 2>/dev/null)" ] && break
   sleep 0.5
 done
-for id in "$MERGE"; do
+for id in "$COMBINE"; do
   st=$(scontrol -o show job "$id" 2>/dev/null | grep -o 'JobState=[A-Z_]*' | head -1)
-  echo "merge job $id: ${st:-gone from the controller}"
+  echo "combine job $id: ${st:-gone from the controller}"
 done
-[ -f "$T/work/merged.json" ] || { echo "no merged report; logs:"; cat "$T"/work/*.log 2>/dev/null | tail -20; exit 1; }
+[ -f "$T/work/combined.json" ] || { echo "no combined report; logs:"; cat "$T"/work/*.log 2>/dev/null | tail -20; exit 1; }
 
 node "$CLI" run "$T/work/suite.json" --workers 2 --quiet --no-checks --out "$T/work/single.json" >/dev/null || exit 1
 node -e '
 const fs = require("fs");
 const a = JSON.parse(fs.readFileSync(process.argv[1])), b = JSON.parse(fs.readFileSync(process.argv[2]));
 const same = JSON.stringify(a.results) === JSON.stringify(b.results) && JSON.stringify(a.blocks) === JSON.stringify(b.blocks);
-console.log(same ? "slurm array of 4 shards + merge: same bits as one run (" + a.results.length + " results, " + a.blocks.length + " blocks)" : "MISMATCH between the merged array and one run");
+console.log(same ? "slurm array of 4 parts + combine: same bits as one run (" + a.results.length + " results, " + a.blocks.length + " blocks)" : "MISMATCH between the combined array and one run");
 process.exit(same ? 0 : 1);
-' "$T/work/merged.json" "$T/work/single.json"
+' "$T/work/combined.json" "$T/work/single.json"

@@ -11,8 +11,8 @@ import { predict, renderPredictionTable } from "./theory/predict.js";
 import type { Prediction } from "./theory/types.js";
 import { evaluateChecks, renderChecks } from "./verdict/checks.js";
 import { runSuite } from "./run/run.js";
-import { CheckpointError, type ShardSpec } from "./run/checkpoint.js";
-import { mergeShardFiles, MergeError, shardFile } from "./run/shards.js";
+import { CheckpointError, type PartSpec } from "./run/checkpoint.js";
+import { combinePartFiles, CombineError, partFile } from "./run/parts.js";
 import type { SimulationResult } from "./run/types.js";
 import { toolVersion } from "./version.js";
 import { buildReport, toJson, writeAtomic } from "./report/json.js";
@@ -42,7 +42,7 @@ Usage:
   walkhull predict <suite.json> [--json]   analytic predictions and hypothesis diagnosis
   walkhull plan <suite.json> (--target-se X | --detect REL) [--workers N] [--pilot-paths N]
                                            paths and wall time for a target SE on Var/n^p at the largest n
-  walkhull merge <shard.json>... --out F  combine shard results into one report (same bits as one run)
+  walkhull combine <part.json>... --out F  join the parts of a run into one report (same bits as one run)
   walkhull diff <baseline.json> <current.json> [--alpha A] [--junit FILE] [--statistical]
                                            regression check of two reports (exit 1 on a significant change)
   walkhull help                            this text
@@ -54,15 +54,15 @@ run options:
   --workers N      worker threads (default: all cores); results are identical for any N
   --quiet          no live progress (a one-line summary is still printed on stderr)
   --no-checks      simulate and report moments only (no predictions, no verdicts)
-  --shard i/N      run only blocks i, i+N, ... and write a shard result to --out
+  --part K --parts N  run only part K (0 <= K < N) of N: blocks K, K+N, ...; writes a part result to --out
   --checkpoint F   checkpoint file (default: <out>.checkpoint, or .walkhull-checkpoint-<hash>.json)
   --resume         continue from the checkpoint; ends with the same bits as an uninterrupted run
   --stop-after-blocks K   stop after K blocks with a checkpoint (exit 75), for tests
   --kernel K       wasm (default) or twin (the plain-TypeScript twin; slow, for cross-checks)
-  --report DIR     also write DIR/report.json, DIR/report.md and DIR/report.html (run and merge)
-  --junit FILE     JUnit XML, one testcase per check (run, merge and diff)
-  --samples FILE   CSV of the kept per-path values: path, <measure>@<n>... (run and merge)
-  --predict-budget S  seconds the numerical predictions may take (run/merge default 10, predict 60);
+  --report DIR     also write DIR/report.json, DIR/report.md and DIR/report.html (run and combine)
+  --junit FILE     JUnit XML, one testcase per check (run, combine and diff)
+  --samples FILE   CSV of the kept per-path values: path, <measure>@<n>... (run and combine)
+  --predict-budget S  seconds the numerical predictions may take (run/combine default 10, predict 60);
                    finite-n means that do not fit are left out, and the reasons say so
 
 diff: exact bit comparison when seed, suite hash and version match; otherwise two-sample z-tests
@@ -117,13 +117,14 @@ function onePositional(positionals: string[], cmd: string): string {
   return positionals[0];
 }
 
-function parseShard(v: string | boolean | undefined): ShardSpec | null {
-  if (v === undefined) return null;
-  const m = typeof v === "string" ? /^(\d+)\/(\d+)$/.exec(v.trim()) : null;
-  if (!m) throw new UsageError(`--shard: expected i/N (e.g. 0/4), got ${JSON.stringify(v)}`);
-  const index = Number(m[1]);
-  const count = Number(m[2]);
-  if (count < 1 || index >= count) throw new UsageError(`--shard: need 0 <= i < N (got ${index}/${count})`);
+function parsePart(flags: Flags): PartSpec | null {
+  const index = intFlag(flags, "part");
+  const count = intFlag(flags, "parts");
+  if (index === undefined && count === undefined) return null;
+  if (count === undefined) throw new UsageError("--part: give the number of parts with --parts N");
+  if (index === undefined) throw new UsageError("--parts: give this run's part with --part K (0 <= K < N)");
+  if (count < 1) throw new UsageError("--parts: must be >= 1");
+  if (index >= count) throw new UsageError(`--part: need 0 <= K < N (got --part ${index} --parts ${count})`);
   return { index, count };
 }
 
@@ -160,7 +161,7 @@ function sampleGeometry(sim: SimulationResult): HtmlExtras {
   }
 }
 
-/** Predictions, verdicts, the tables on stdout and the report file: shared by run and merge. */
+/** Predictions, verdicts, the tables on stdout and the report file: shared by run and combine. */
 function finish(sim: SimulationResult, opts: FinishOptions): number {
   const suite = sim.suite;
   const prediction = opts.withChecks ? predict(suite, { budgetSeconds: opts.predictBudget }) : undefined;
@@ -189,9 +190,9 @@ function finish(sim: SimulationResult, opts: FinishOptions): number {
   return report.exitCode;
 }
 
-function defaultCheckpoint(suite: LoadedSuite, out: string | undefined, shard: ShardSpec | null): string {
+function defaultCheckpoint(suite: LoadedSuite, out: string | undefined, part: PartSpec | null): string {
   if (out) return `${out}.checkpoint`;
-  const tag = shard ? `-shard-${shard.index}-of-${shard.count}` : "";
+  const tag = part ? `-part-${part.index}-of-${part.count}` : "";
   return `.walkhull-checkpoint-${suite.hash.slice(0, 12)}${tag}.json`;
 }
 
@@ -204,7 +205,8 @@ async function cmdRun(args: string[]): Promise<number> {
     workers: { type: "string" },
     quiet: { type: "boolean" },
     "no-checks": { type: "boolean" },
-    shard: { type: "string" },
+    part: { type: "string" },
+    parts: { type: "string" },
     checkpoint: { type: "string" },
     resume: { type: "boolean" },
     "stop-after-blocks": { type: "string" },
@@ -222,14 +224,14 @@ async function cmdRun(args: string[]): Promise<number> {
   if (paths === 0) throw new UsageError("--paths: must be >= 1");
   const workers = intFlag(flags, "workers");
   if (workers === 0) throw new UsageError("--workers: must be >= 1");
-  const shard = parseShard(flags.shard);
-  if (shard && !out) throw new UsageError("--shard: give --out FILE for the shard result (merge them with walkhull merge)");
+  const part = parsePart(flags);
+  if (part && !out) throw new UsageError("--part: give --out FILE for the part result (join the parts with walkhull combine)");
   const stopAfter = intFlag(flags, "stop-after-blocks");
   const predictBudget = secondsFlag(flags, "predict-budget", RUN_PREDICT_BUDGET);
   const outputs = outputFlags(flags);
-  if (shard && (outputs.reportDir || outputs.junit || outputs.samples)) throw new UsageError("--report, --junit and --samples apply to full runs; merge the shards, then report");
+  if (part && (outputs.reportDir || outputs.junit || outputs.samples)) throw new UsageError("--report, --junit and --samples apply to whole runs; combine the parts, then report");
   const suite = loadSuite(file, { paths, seed: intFlag(flags, "seed") });
-  const checkpoint = (flags.checkpoint as string | undefined) ?? defaultCheckpoint(suite, out, shard);
+  const checkpoint = (flags.checkpoint as string | undefined) ?? defaultCheckpoint(suite, out, part);
   checkOutPath(checkpoint, "checkpoint");
   const quiet = Boolean(flags.quiet);
   const startedAt = new Date();
@@ -238,7 +240,7 @@ async function cmdRun(args: string[]): Promise<number> {
     outcome = await runSuite(suite, {
       workers,
       kernel,
-      shard,
+      part,
       checkpoint,
       resume: Boolean(flags.resume),
       stopAfterBlocks: stopAfter,
@@ -254,9 +256,9 @@ async function cmdRun(args: string[]): Promise<number> {
   }
   const { sim, collector } = outcome;
   let code: number;
-  if (shard) {
-    writeAtomic(out!, toJson(shardFile(sim, collector, shard, startedAt)));
-    process.stdout.write(`shard ${shard.index}/${shard.count}: ${sim.blocks.length} blocks, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths -> ${out}\n`);
+  if (part) {
+    writeAtomic(out!, toJson(partFile(sim, collector, part, startedAt)));
+    process.stdout.write(`part ${part.index} of ${part.count}: ${sim.blocks.length} blocks, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths -> ${out}\n`);
     code = EXIT_OK;
   } else {
     code = finish(sim, { out, quiet, withChecks: !flags["no-checks"], startedAt, predictBudget, ...outputs });
@@ -265,7 +267,7 @@ async function cmdRun(args: string[]): Promise<number> {
   return code;
 }
 
-async function cmdMerge(args: string[]): Promise<number> {
+async function cmdCombine(args: string[]): Promise<number> {
   const { flags, positionals } = parse(args, {
     out: { type: "string" },
     quiet: { type: "boolean" },
@@ -275,15 +277,15 @@ async function cmdMerge(args: string[]): Promise<number> {
     junit: { type: "string" },
     samples: { type: "string" },
   });
-  if (positionals.length === 0) throw new UsageError("merge: give the shard result files (walkhull merge a.json b.json ... --out report.json)");
+  if (positionals.length === 0) throw new UsageError("combine: give the part result files (walkhull combine part-0.json part-1.json ... --out report.json)");
   const out = flags.out as string | undefined;
   checkOutPath(out, "out");
   const outputs = outputFlags(flags);
   let sim: SimulationResult;
   try {
-    sim = mergeShardFiles(positionals, toolVersion());
+    sim = combinePartFiles(positionals, toolVersion());
   } catch (e) {
-    if (e instanceof MergeError) throw new UsageError(e.message);
+    if (e instanceof CombineError) throw new UsageError(e.message);
     throw e;
   }
   return finish(sim, { out, quiet: Boolean(flags.quiet), withChecks: !flags["no-checks"], startedAt: new Date(), predictBudget: secondsFlag(flags, "predict-budget", RUN_PREDICT_BUDGET), ...outputs });
@@ -362,8 +364,8 @@ export async function main(argv: string[]): Promise<number> {
         return await cmdRun(rest);
       case "predict":
         return await cmdPredict(rest);
-      case "merge":
-        return await cmdMerge(rest);
+      case "combine":
+        return await cmdCombine(rest);
       case "diff":
         return await cmdDiff(rest);
       case "plan":
@@ -375,7 +377,7 @@ export async function main(argv: string[]): Promise<number> {
         process.stdout.write(HELP + "\n");
         return cmd === undefined ? EXIT_BAD_INPUT : EXIT_OK;
       default:
-        throw new UsageError(`unknown command ${JSON.stringify(cmd)} (commands: run, predict, plan, merge, diff, help)`);
+        throw new UsageError(`unknown command ${JSON.stringify(cmd)} (commands: run, predict, plan, combine, diff, help)`);
     }
   } catch (e) {
     if (e instanceof SuiteError || e instanceof UsageError) {

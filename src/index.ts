@@ -16,9 +16,9 @@ export { evaluateChecks as check, renderChecks } from "./verdict/checks.js";
 export { buildReport, toJson } from "./report/json.js";
 export type { Report } from "./report/json.js";
 
-export { runSuite, shardBlocks } from "./run/run.js";
+export { runSuite, partBlocks } from "./run/run.js";
 export type { RunOptions, RunOutcome } from "./run/run.js";
-export { mergeShardFiles } from "./run/shards.js";
+export { combinePartFiles } from "./run/parts.js";
 
 import type { LoadedSuite } from "./suite/schema.js";
 import type { SimulationResult } from "./run/types.js";

@@ -2,7 +2,7 @@
 //
 // Two modes.
 // - exact: when both reports have the same seed, suite hash and tool version, the simulation is
-//   deterministic (same bits for any worker count or shard split), so any difference in a
+//   deterministic (same bits for any worker count or split into parts), so any difference in a
 //   `results` number is a regression: every row is compared bit for bit (Object.is).
 // - statistical (otherwise): for every (measure, n) in both reports, two-sample z-tests of the mean
 //   and of the variance, z = (current - baseline) / sqrt(SE_b^2 + SE_c^2), SEs from the reports

@@ -43,10 +43,10 @@ export interface Report {
   limits?: unknown[];
   /** Covariance between measures at each n (over the kept measures of the suite). */
   covariance: { n: number; measures: string[]; matrix: number[][] }[];
-  /** Per-block moment sums, for jackknife re-analysis and exact shard merges. */
+  /** Per-block moment sums, for jackknife re-analysis and exact combines of parts. */
   blocks: BlockStats[];
   blockCount: number;
-  /** Indices of the blocks this report holds (all of them unless it is a shard). */
+  /** The part of the run this report holds (null: all of it; reports are written for whole runs only). */
   shard?: { index: number; count: number } | null;
   exitCode?: number;
 }

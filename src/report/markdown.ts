@@ -118,7 +118,7 @@ export function reportSections(r: Report): Sections {
         ["workers", String(p.workers)],
         ["seed", String(p.seed)],
         ["suite sha256", p.suiteHash],
-        ["blocks", `${r.blocks.length} of ${r.blockCount}${r.shard ? ` (shard ${r.shard.index}/${r.shard.count})` : ""}`],
+        ["blocks", `${r.blocks.length} of ${r.blockCount}${r.shard ? ` (part ${r.shard.index} of ${r.shard.count})` : ""}`],
         ["started", p.startedAt],
         ["wall time", `${p.wallSeconds.toFixed(2)} s (${sig(r.timing.pathsPerSecond, 4)} paths/s)`],
       ],

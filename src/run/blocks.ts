@@ -1,5 +1,5 @@
 // Raw per-path kernel values of one block -> that block's mergeable statistics and kept sample.
-// Pure functions of numbers: used in-process, in worker threads, and by shard merging alike.
+// Pure functions of numbers: used in-process, in worker threads, and by combining parts alike.
 
 import { emptyCoMoments, emptyMoments, mergeCoMoments, mergeMoments, pushValue, pushVector } from "../stats/moments.js";
 import { recordLayout } from "../engine/types.js";
@@ -77,7 +77,7 @@ export function mergeBlockComoments(blocks: BlockStats[]): BlockStats["comoments
 /**
  * Selection hash of a path: 53 bits from (seed, global path index) by murmur3's finaliser.
  * The kept sample is the MAX_KEPT paths with the smallest hashes, so it does not depend on how
- * paths are split into blocks, workers or shards.
+ * paths are split into blocks, workers or parts.
  */
 export function pathHash(seed: number, pathIndex: number): number {
   const s0 = seed >>> 0;

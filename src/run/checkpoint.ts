@@ -8,7 +8,8 @@ import { runStateFromJson, runStateToJson, type RunState, type RunStateJson } fr
 
 export const CHECKPOINT_FORMAT = "walkhull-checkpoint/1";
 
-export interface ShardSpec {
+/** Part K of N of a run (`--part K --parts N`): blocks K, K+N, K+2N, ... */
+export interface PartSpec {
   index: number;
   count: number;
 }
@@ -20,7 +21,7 @@ interface CheckpointJson extends RunStateJson {
   seed: number;
   paths: number;
   blockCount: number;
-  shard: ShardSpec | null;
+  part: PartSpec | null;
   writtenAt: string;
 }
 
@@ -31,7 +32,7 @@ export function writeCheckpoint(
   suite: LoadedSuite,
   version: string,
   blockCount: number,
-  shard: ShardSpec | null,
+  part: PartSpec | null,
   state: RunState,
 ): void {
   const j: CheckpointJson = {
@@ -41,7 +42,7 @@ export function writeCheckpoint(
     seed: suite.seed,
     paths: suite.paths,
     blockCount,
-    shard,
+    part,
     ...runStateToJson(state),
     writtenAt: new Date().toISOString(),
   };
@@ -50,13 +51,13 @@ export function writeCheckpoint(
   renameSync(tmp, path);
 }
 
-/** Read a checkpoint and refuse it unless it belongs to this suite, seed, version and shard. */
+/** Read a checkpoint and refuse it unless it belongs to this suite, seed, version and part. */
 export function readCheckpoint(
   path: string,
   suite: LoadedSuite,
   version: string,
   blockCount: number,
-  shard: ShardSpec | null,
+  part: PartSpec | null,
 ): RunState {
   if (!existsSync(path)) throw new CheckpointError(`--resume: no checkpoint at ${path}`);
   let j: CheckpointJson;
@@ -71,8 +72,9 @@ export function readCheckpoint(
   if (j.seed !== suite.seed) throw refuse(`is for seed ${j.seed}, this run has seed ${suite.seed}`);
   if (j.suiteHash !== suite.hash) throw refuse(`is for another suite (hash ${String(j.suiteHash).slice(0, 12)}, this suite ${suite.hash.slice(0, 12)})`);
   if (j.blockCount !== blockCount) throw refuse(`has ${j.blockCount} blocks, this run ${blockCount}`);
-  const sameShard = (j.shard === null && shard === null) || (j.shard && shard && j.shard.index === shard.index && j.shard.count === shard.count);
-  if (!sameShard) throw refuse(`is for shard ${j.shard ? `${j.shard.index}/${j.shard.count}` : "none"}, this run ${shard ? `${shard.index}/${shard.count}` : "none"}`);
+  const jp = j.part ?? null;
+  const samePart = (jp === null && part === null) || (jp && part && jp.index === part.index && jp.count === part.count);
+  if (!samePart) throw refuse(`is for part ${jp ? `${jp.index} of ${jp.count}` : "none"}, this run ${part ? `${part.index} of ${part.count}` : "none"}`);
   const dim = recordLayout(suite.n.length).width;
   try {
     const state = runStateFromJson(j, dim, `checkpoint ${path}`);

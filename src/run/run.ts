@@ -1,9 +1,9 @@
-// One suite end to end with workers, progress, checkpoints, signals and shards.
+// One suite end to end with workers, progress, checkpoints, signals and parts (--part K --parts N).
 
 import { blockCount } from "../suite/load.js";
 import type { LoadedSuite } from "../suite/schema.js";
 import { toolVersion } from "../version.js";
-import { readCheckpoint, writeCheckpoint, type ShardSpec } from "./checkpoint.js";
+import { readCheckpoint, writeCheckpoint, type PartSpec } from "./checkpoint.js";
 import { defaultWorkers, runBlocks } from "./pool.js";
 import { Progress } from "./progress.js";
 import { BlockCollector, type KernelKind } from "./simulate.js";
@@ -12,7 +12,7 @@ import type { SimulationResult } from "./types.js";
 export interface RunOptions {
   workers?: number;
   kernel?: KernelKind;
-  shard?: ShardSpec | null;
+  part?: PartSpec | null;
   /** Checkpoint file; null disables checkpoints. */
   checkpoint?: string | null;
   resume?: boolean;
@@ -33,24 +33,24 @@ export type RunOutcome =
   | { status: "done"; sim: SimulationResult; collector: BlockCollector }
   | { status: "stopped"; reason: "SIGINT" | "SIGTERM" | "stop-after-blocks"; blocksDone: number; checkpoint: string | null };
 
-/** The blocks a run (or shard i/N: blocks i, i+N, ...) is responsible for. */
-export function shardBlocks(total: number, shard: ShardSpec | null | undefined): number[] {
+/** The blocks a run (or part K of N: blocks K, K+N, ...) is responsible for. */
+export function partBlocks(total: number, part: PartSpec | null | undefined): number[] {
   const all = Array.from({ length: total }, (_, b) => b);
-  return shard ? all.filter((b) => b % shard.count === shard.index) : all;
+  return part ? all.filter((b) => b % part.count === part.index) : all;
 }
 
 export async function runSuite(suite: LoadedSuite, opts: RunOptions = {}): Promise<RunOutcome> {
   const t0 = performance.now();
   const total = blockCount(suite);
-  const shard = opts.shard ?? null;
+  const part = opts.part ?? null;
   const version = toolVersion();
   const collector = new BlockCollector(suite);
   const checkpoint = opts.checkpoint ?? null;
   if (opts.resume) {
     if (!checkpoint) throw new Error("--resume needs a checkpoint file");
-    collector.restore(readCheckpoint(checkpoint, suite, version, total, shard));
+    collector.restore(readCheckpoint(checkpoint, suite, version, total, part));
   }
-  const mine = shardBlocks(total, shard);
+  const mine = partBlocks(total, part);
   const todo = mine.filter((b) => !collector.blocks.has(b));
   const workers = Math.max(1, Math.min(opts.workers ?? defaultWorkers(), Math.max(todo.length, 1)));
   const log = opts.log ?? ((t: string) => process.stderr.write(t));
@@ -58,7 +58,7 @@ export async function runSuite(suite: LoadedSuite, opts: RunOptions = {}): Promi
 
   let stopReason: "SIGINT" | "SIGTERM" | "stop-after-blocks" | null = null;
   const save = () => {
-    if (checkpoint) writeCheckpoint(checkpoint, suite, version, total, shard, collector.snapshot());
+    if (checkpoint) writeCheckpoint(checkpoint, suite, version, total, part, collector.snapshot());
   };
   const onSignal = (sig: "SIGINT" | "SIGTERM") => () => {
     stopReason ??= sig;

@@ -78,7 +78,7 @@ export class BlockCollector {
     this.max = [...state.max];
   }
 
-  /** The state to write into a checkpoint or a shard file. */
+  /** The state to write into a checkpoint or a part file. */
   snapshot(): RunState {
     return { blocks: [...this.blocks.values()].sort((a, b) => a.block - b.block), kept: this.compactKept(), min: this.min, max: this.max };
   }
@@ -131,7 +131,7 @@ export function resultRecords(suite: Suite, blocks: BlockStats[], min: number[],
 
 export interface SimulateOptions {
   kernel?: KernelKind;
-  /** Only these blocks (a shard); default all. */
+  /** Only these blocks (a part of the run); default all. */
   blocks?: number[];
   onBlock?: (done: number, total: number, paths: number) => void;
 }

@@ -1,4 +1,4 @@
-// Serialisation of partial run state (checkpoints and shard files): exact round trips.
+// Serialisation of partial run state (checkpoints and part files): exact round trips.
 // Doubles survive JSON exactly (shortest round-trip form); the large kept-sample columns are
 // stored as base64 of their IEEE-754 bytes to stay compact.
 
@@ -78,7 +78,7 @@ export function keptFromJson(j: KeptJson, dim: number, where: string): KeptCandi
   return k;
 }
 
-/** What a checkpoint or a shard file holds of a run: its blocks, kept candidates and extremes. */
+/** What a checkpoint or a part file holds of a run: its blocks, kept candidates and extremes. */
 export interface RunState {
   blocks: BlockStats[];
   kept: KeptCandidates;

@@ -32,7 +32,7 @@ export interface ResultRecord {
   max: number;
 }
 
-/** A deterministic sample of per-path values: the same paths whatever the worker count or shards. */
+/** A deterministic sample of per-path values: the same paths whatever the worker count or parts. */
 export interface KeptSample {
   /** Global path indices, ascending. */
   pathIndex: number[];
@@ -42,9 +42,9 @@ export interface KeptSample {
 
 export interface SimulationResult {
   suite: LoadedSuite;
-  /** Blocks in block order (all of them for a full run; a shard holds a subset). */
+  /** Blocks in block order (all of them for a full run; a part holds a subset). */
   blocks: BlockStats[];
-  /** Total number of blocks of the run (a shard holds only some). */
+  /** Total number of blocks of the run (a part holds only some). */
   blockCount: number;
   results: ResultRecord[];
   sample: KeptSample;

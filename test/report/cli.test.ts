@@ -1,4 +1,4 @@
-// The report options of the CLI (built dist/cli.js, as `npm test` builds first): run and merge
+// The report options of the CLI (built dist/cli.js, as `npm test` builds first): run and combine
 // with --report DIR, --junit FILE, --samples FILE; walkhull diff with its exit codes.
 
 import { describe, expect, it } from "vitest";
@@ -28,7 +28,7 @@ function setup(over: object = {}): { dir: string; suite: string } {
   return { dir, suite };
 }
 
-describe("walkhull run/merge --report --junit --samples", () => {
+describe("walkhull run/combine --report --junit --samples", () => {
   it("run writes report.json (same as --out), report.md, report.html, the JUnit file and the samples CSV", () => {
     const { dir, suite } = setup();
     const rep = join(dir, "rep");
@@ -58,15 +58,15 @@ describe("walkhull run/merge --report --junit --samples", () => {
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/--report: .* is not a directory/);
     expect(existsSync(join(dir, "j.xml"))).toBe(false);
-    const s = cli(["run", suite, "--quiet", "--shard", "0/2", "--out", join(dir, "s0.json"), "--report", join(dir, "r")]);
+    const s = cli(["run", suite, "--quiet", "--part", "0", "--parts", "2", "--out", join(dir, "s0.json"), "--report", join(dir, "r")]);
     expect(s.status).toBe(2);
     expect(existsSync(join(dir, "s0.json"))).toBe(false);
   });
 
-  it("merge of two shards accepts --report and --junit", () => {
+  it("combine of two parts accepts --report and --junit", () => {
     const { dir, suite } = setup();
-    for (const i of [0, 1]) expect(cli(["run", suite, "--quiet", "--workers", "1", "--shard", `${i}/2`, "--out", join(dir, `s${i}.json`)]).status).toBe(0);
-    const m = cli(["merge", join(dir, "s0.json"), join(dir, "s1.json"), "--report", join(dir, "m"), "--junit", join(dir, "m.xml"), "--samples", join(dir, "m.csv")]);
+    for (const i of [0, 1]) expect(cli(["run", suite, "--quiet", "--workers", "1", "--part", String(i), "--parts", "2", "--out", join(dir, `s${i}.json`)]).status).toBe(0);
+    const m = cli(["combine", join(dir, "s0.json"), join(dir, "s1.json"), "--report", join(dir, "m"), "--junit", join(dir, "m.xml"), "--samples", join(dir, "m.csv")]);
     expect([0, 1]).toContain(m.status);
     expect(existsSync(join(dir, "m", "report.html"))).toBe(true);
     expect(validateJunit(readFileSync(join(dir, "m.xml"), "utf8")).tests).toBeGreaterThan(0);

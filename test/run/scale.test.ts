@@ -1,4 +1,4 @@
-// Reproducibility under scale: worker counts, shards, checkpoints, signals, failed workers.
+// Reproducibility under scale: worker counts, parts (--part K --parts N + combine), checkpoints, signals, failed workers.
 // These run the compiled CLI (dist/cli.js, built by `npm test`) and the library.
 
 import { describe, expect, it } from "vitest";
@@ -69,34 +69,52 @@ describe("same bits whatever the worker count", () => {
   });
 });
 
-describe("shards and merge", () => {
-  it("shards 0/3, 1/3, 2/3 merged give the bits of one run; merge refuses duplicates and gaps", () => {
+describe("parts and combine", () => {
+  it("parts 0, 1, 2 of 3 combined give the bits of one run; combine refuses duplicates, gaps and bad part options", () => {
     const d = tmp();
     const suite = writeSuite(d);
     const one = cli(["run", suite, "--workers", "1", "--quiet", "--out", join(d, "one.json")]);
     expect(one.status, one.stderr).toBe(0);
     for (const i of [0, 1, 2]) {
-      const r = cli(["run", suite, "--shard", `${i}/3`, "--workers", "1", "--quiet", "--out", join(d, `s${i}.json`)]);
+      const r = cli(["run", suite, "--part", String(i), "--parts", "3", "--workers", "1", "--quiet", "--out", join(d, `s${i}.json`)]);
       expect(r.status, r.stderr).toBe(0);
     }
-    const m = cli(["merge", join(d, "s2.json"), join(d, "s0.json"), join(d, "s1.json"), "--out", join(d, "merged.json")]);
+    const m = cli(["combine", join(d, "s2.json"), join(d, "s0.json"), join(d, "s1.json"), "--out", join(d, "merged.json")]);
     expect(m.status, m.stderr).toBe(0);
     expect(statsOf(join(d, "merged.json"))).toEqual(statsOf(join(d, "one.json")));
 
-    const dup = cli(["merge", join(d, "s0.json"), join(d, "s0.json"), join(d, "s1.json"), "--out", join(d, "x.json")]);
+    const dup = cli(["combine", join(d, "s0.json"), join(d, "s0.json"), join(d, "s1.json"), "--out", join(d, "x.json")]);
     expect(dup.status).toBe(2);
-    expect(dup.stderr).toMatch(/shard 0\/3 given twice/);
-    const gap = cli(["merge", join(d, "s0.json"), join(d, "s2.json"), "--out", join(d, "x.json")]);
+    expect(dup.stderr).toMatch(/part 0 of 3 given twice/);
+    const gap = cli(["combine", join(d, "s0.json"), join(d, "s2.json"), "--out", join(d, "x.json")]);
     expect(gap.status).toBe(2);
-    expect(gap.stderr).toMatch(/missing shard\(s\) 1\/3/);
+    expect(gap.stderr).toMatch(/missing part\(s\) 1 of 3/);
     expect(existsSync(join(d, "x.json"))).toBe(false);
 
     const other = writeSuite(tmp(), { seed: 1 });
-    const o = cli(["run", other, "--shard", "1/3", "--quiet", "--out", join(d, "other1.json")]);
+    const o = cli(["run", other, "--part", "1", "--parts", "3", "--quiet", "--out", join(d, "other1.json")]);
     expect(o.status).toBe(0);
-    const mix = cli(["merge", join(d, "s0.json"), join(d, "other1.json"), join(d, "s2.json"), "--out", join(d, "x.json")]);
+    const mix = cli(["combine", join(d, "s0.json"), join(d, "other1.json"), join(d, "s2.json"), "--out", join(d, "x.json")]);
     expect(mix.status).toBe(2);
     expect(mix.stderr).toMatch(/other1\.json does not match .*s0\.json: suite hash/);
+
+    const bad: [string[], RegExp][] = [
+      [["--part", "3", "--parts", "3"], /^walkhull: --part: need 0 <= K < N \(got --part 3 --parts 3\)/],
+      [["--part", "1"], /^walkhull: --part: give the number of parts with --parts N/],
+      [["--parts", "2"], /^walkhull: --parts: give this run's part with --part K/],
+      [["--part", "-1", "--parts", "2"], /--part/],
+      [["--parts", "0", "--part", "0"], /^walkhull: --parts: must be >= 1/],
+    ];
+    for (const [args, pattern] of bad) {
+      const r = cli(["run", suite, ...args, "--quiet", "--out", join(d, "y.json")]);
+      expect(r.status, args.join(" ")).toBe(2);
+      expect(r.stderr).toMatch(pattern);
+      expect(existsSync(join(d, "y.json"))).toBe(false);
+    }
+    const notPart = cli(["combine", join(d, "one.json"), "--out", join(d, "x.json")]);
+    expect(notPart.status).toBe(2);
+    expect(notPart.stderr).toMatch(/one\.json: not a walkhull part result/);
+    expect(cli(["merge", join(d, "s0.json"), "--out", join(d, "x.json")]).status).toBe(2);
   });
 });
 

@@ -7,8 +7,8 @@ import { join } from "node:path";
 
 const ROOT = new URL("../../", import.meta.url).pathname;
 
-describe("Slurm job array of shards, then a merge job (afterok)", () => {
-  it("merges 4 array tasks into the bits of one run, or says why it is skipped", () => {
+describe("Slurm job array of parts, then a combine job (afterok)", () => {
+  it("combines 4 array tasks into the bits of one run, or says why it is skipped", () => {
     const r = spawnSync("bash", [join(ROOT, "scripts/slurm-array-check.sh")], { encoding: "utf8", timeout: 240_000 });
     if (r.status === 77) {
       console.log(r.stdout.trim());
@@ -16,6 +16,6 @@ describe("Slurm job array of shards, then a merge job (afterok)", () => {
       return;
     }
     expect(r.status, r.stdout + r.stderr).toBe(0);
-    expect(r.stdout).toMatch(/slurm array of 4 shards \+ merge: same bits as one run/);
+    expect(r.stdout).toMatch(/slurm array of 4 parts \+ combine: same bits as one run/);
   });
 });
