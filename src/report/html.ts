@@ -10,6 +10,7 @@ import type { LimitEstimate } from "../verdict/types.js";
 import type { Report } from "./json.js";
 import { reportSections, type Table } from "./markdown.js";
 import { histogramData, histogramSvg, hullSvg, ksSeries, ksSvg, qqData, qqSvg, varianceRatioSvg, varianceSeries, type PathGeometry } from "./plots.js";
+import { reportCss, VERDICT_MARK, type VerdictWord } from "./palette.js";
 import { escapeXml as esc } from "./svg.js";
 
 export interface HtmlExtras {
@@ -21,21 +22,6 @@ export interface HtmlExtras {
   geometryNote?: string;
 }
 
-const CSS = `
-body{font:14px/1.45 system-ui,-apple-system,"Segoe UI",Roboto,sans-serif;color:#1d232a;max-width:1180px;margin:0 auto;padding:18px 22px;background:#fff}
-h1{font-size:22px;margin:0 0 6px}h2{font-size:18px;margin:26px 0 8px;border-bottom:1px solid #d8dee4;padding-bottom:3px}h3{font-size:15px;margin:16px 0 6px}
-.summary{padding:8px 12px;border-radius:6px;background:#eef6ee;border:1px solid #b7d8b7}.summary.failed{background:#fbeeee;border-color:#e3b1b1}
-table{border-collapse:collapse;margin:6px 0 10px;font-size:13px}th,td{border:1px solid #d8dee4;padding:3px 7px;text-align:left;vertical-align:top}th{background:#f4f6f8}
-td.num{text-align:right;font-variant-numeric:tabular-nums}.v-pass,.v-confirmed{color:#176f2c;font-weight:600}.v-fail{color:#b3261e;font-weight:700}.v-inconclusive,.v-not-yet-visible{color:#8a6100}
-.plots{display:flex;flex-wrap:wrap;gap:10px}figure{margin:0 0 8px;border:1px solid #e3e7eb;border-radius:6px;padding:6px}figcaption{font-size:12px;color:#4a535c;max-width:460px}
-svg.plot{display:block;font:11px system-ui,sans-serif}svg .grid line{stroke:#eceff2}svg .axis line{stroke:#59636e}svg .axis text{fill:#3b434b}svg .label{font-size:12px;fill:#1d232a}
-svg circle.pt{fill:#1f5fbf;stroke:#fff;stroke-width:.6}svg rect.pt{fill:#1f5fbf}svg .err{stroke:#1f5fbf;stroke-width:1}svg .band{fill:#f2b233;fill-opacity:.25;stroke:none}
-svg .fit{fill:none;stroke:#d1495b;stroke-width:1.8}svg .predicted{fill:none;stroke:#222;stroke-width:1.4;stroke-dasharray:6 4}svg .floor{fill:none;stroke:#888;stroke-dasharray:2 3}
-svg .bar{fill:#8fb3e8;stroke:none}svg .legend text{fill:#1d232a}svg .walk{fill:none;stroke-width:.9;stroke-opacity:.85}svg .hull{fill:#f2b233;fill-opacity:.12;stroke:#b36b00;stroke-width:1.6}
-svg circle.vertex{fill:#b36b00}svg rect.vertex{fill:#b36b00}svg .origin{fill:#000}
-svg .walk0{stroke:#1f5fbf}svg .walk1{stroke:#2a9d8f}svg .walk2{stroke:#9b5de5}svg .walk3{stroke:#e76f51}svg .walk4{stroke:#6a994e}svg .walk5{stroke:#8d6e63}
-.note{color:#4a535c;font-size:13px}ul.details li{margin:2px 0}code{background:#f4f6f8;padding:0 3px;border-radius:3px}
-`;
 
 const NUMERIC = /^[-+]?[0-9.,e±()\[\] %-]+$|^-$/i;
 
@@ -46,7 +32,11 @@ function htmlTable(t: Table, verdictColumn = -1): string {
       (r) =>
         `<tr>${r
           .map((c, i) => {
-            const cls = i === verdictColumn ? ` class="v-${esc(c)}"` : NUMERIC.test(c) && i > 0 ? ` class="num"` : "";
+            if (i === verdictColumn) {
+              const mark = VERDICT_MARK[c as VerdictWord];
+              return `<td class="v-${esc(c)}">${mark ? `<span class="mark" aria-hidden="true">${mark}</span>` : ""}${esc(c)}</td>`;
+            }
+            const cls = NUMERIC.test(c) && i > 0 ? ` class="num"` : "";
             return `<td${cls}>${esc(c)}</td>`;
           })
           .join("")}</tr>`,
@@ -97,7 +87,7 @@ export function renderHtml(r: Report, extras: HtmlExtras = {}): string {
     "<!DOCTYPE html>",
     `<html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">`,
     `<meta http-equiv="Content-Security-Policy" content="default-src 'none'; style-src 'unsafe-inline'; img-src data:">`,
-    `<title>walkhull report: ${esc(s.title)}</title><style>${CSS}</style></head><body>`,
+    `<title>walkhull report: ${esc(s.title)}</title><style>${reportCss()}</style></head><body>`,
     `<h1>walkhull report: ${esc(s.title)}</h1>`,
     `<p class="summary${failed ? " failed" : ""}">${esc(s.summary)}</p>`,
   ];
