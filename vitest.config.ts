@@ -5,6 +5,7 @@ export default defineConfig({
     testTimeout: 120_000,
     hookTimeout: 120_000,
     pool: "forks",
+    globalSetup: ["./test/global-setup.ts"],
     reporters: ["default", "./test/summary-reporter.ts"],
   },
 });

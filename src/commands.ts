@@ -7,7 +7,9 @@ import { existsSync, readFileSync, rmSync, statSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { loadSuite, SuiteError } from "./suite/load.js";
 import type { LoadedSuite } from "./suite/schema.js";
-import { predict, renderPredictionTable } from "./theory/predict.js";
+import { renderPredictionTable } from "./theory/predict.js";
+import { predictCached } from "./theory/cache.js";
+import { runMeanTargets } from "./run/accuracy.js";
 import type { Prediction } from "./theory/types.js";
 import { evaluateChecks, renderChecks } from "./verdict/checks.js";
 import { runSuite } from "./run/run.js";
@@ -39,7 +41,8 @@ const HELP = `walkhull: simulate convex hulls of planar random walks and check l
 
 Usage:
   walkhull run <suite.json> [options]      simulate a suite, check claims and predictions, report
-  walkhull predict <suite.json> [--json]   analytic predictions and hypothesis diagnosis
+  walkhull predict <suite.json> [--json] [--tolerance REL]
+                                           analytic predictions and hypothesis diagnosis
   walkhull plan <suite.json> (--target-se X | --detect REL) [--workers N] [--pilot-paths N]
                                            paths and wall time for a target SE on Var/n^p at the largest n
   walkhull combine <part.json>... --out F  join the parts of a run into one report (same bits as one run)
@@ -62,8 +65,10 @@ run options:
   --report DIR     also write DIR/report.json, DIR/report.md and DIR/report.html (run and combine)
   --junit FILE     JUnit XML, one testcase per check (run, combine and diff)
   --samples FILE   CSV of the kept per-path values: path, <measure>@<n>... (run and combine)
-  --predict-budget S  seconds the numerical predictions may take (run/combine default 10, predict 60);
-                   finite-n means that do not fit are left out, and the reasons say so
+  --predict-budget S  time cap of the numerical predictions (default 60 s); finite-n means are
+                   computed to 1/10 of the run's standard error of each mean (predict: --tolerance,
+                   relative, default 1e-6); one that cannot reach its bound is shown, not gated
+  --no-cache       neither read nor write the prediction cache ($XDG_CACHE_HOME or ~/.cache/walkhull)
 
 diff: exact bit comparison when seed, suite hash and version match; otherwise two-sample z-tests
 of every mean and variance, Holm over the family at --alpha (default 0.01); --statistical forces
@@ -84,8 +89,8 @@ function parse(args: string[], options: ParseArgsConfig["options"]): { flags: Fl
   }
 }
 
-/** Default wall-time budgets of the numerical predictions: `predict` may take longer than `run`. */
-const RUN_PREDICT_BUDGET = 10;
+/** Default time caps of the numerical predictions (a guard: their accuracy is set by a target). */
+const RUN_PREDICT_BUDGET = 60;
 const PREDICT_BUDGET = 60;
 
 function secondsFlag(flags: Flags, name: string, fallback: number): number {
@@ -135,6 +140,8 @@ interface FinishOptions {
   startedAt: Date;
   /** Seconds the numerical predictions may take (--predict-budget). */
   predictBudget: number;
+  /** Read and write the prediction cache (not --no-cache). */
+  cache: boolean;
   /** --report DIR, --junit FILE, --samples FILE */
   reportDir?: string;
   junit?: string;
@@ -164,7 +171,9 @@ function sampleGeometry(sim: SimulationResult): HtmlExtras {
 /** Predictions, verdicts, the tables on stdout and the report file: shared by run and combine. */
 function finish(sim: SimulationResult, opts: FinishOptions): number {
   const suite = sim.suite;
-  const prediction = opts.withChecks ? predict(suite, { budgetSeconds: opts.predictBudget }) : undefined;
+  const prediction = opts.withChecks
+    ? predictCached(suite, { budgetSeconds: opts.predictBudget, meanTargets: runMeanTargets(sim) }, { use: opts.cache })
+    : undefined;
   const verdicts = prediction ? evaluateChecks(sim, prediction) : undefined;
   const report = buildReport(sim, opts.startedAt, { predictions: prediction, checks: verdicts?.checks, limits: verdicts?.limits });
   report.exitCode = verdicts && verdicts.failed > 0 ? EXIT_CHECK_FAILED : EXIT_OK;
@@ -211,6 +220,7 @@ async function cmdRun(args: string[]): Promise<number> {
     resume: { type: "boolean" },
     "stop-after-blocks": { type: "string" },
     "predict-budget": { type: "string" },
+    "no-cache": { type: "boolean" },
     report: { type: "string" },
     junit: { type: "string" },
     samples: { type: "string" },
@@ -261,7 +271,7 @@ async function cmdRun(args: string[]): Promise<number> {
     process.stdout.write(`part ${part.index} of ${part.count}: ${sim.blocks.length} blocks, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths -> ${out}\n`);
     code = EXIT_OK;
   } else {
-    code = finish(sim, { out, quiet, withChecks: !flags["no-checks"], startedAt, predictBudget, ...outputs });
+    code = finish(sim, { out, quiet, withChecks: !flags["no-checks"], startedAt, predictBudget, cache: !flags["no-cache"], ...outputs });
   }
   rmSync(checkpoint, { force: true });
   return code;
@@ -273,6 +283,7 @@ async function cmdCombine(args: string[]): Promise<number> {
     quiet: { type: "boolean" },
     "no-checks": { type: "boolean" },
     "predict-budget": { type: "string" },
+    "no-cache": { type: "boolean" },
     report: { type: "string" },
     junit: { type: "string" },
     samples: { type: "string" },
@@ -288,7 +299,7 @@ async function cmdCombine(args: string[]): Promise<number> {
     if (e instanceof CombineError) throw new UsageError(e.message);
     throw e;
   }
-  return finish(sim, { out, quiet: Boolean(flags.quiet), withChecks: !flags["no-checks"], startedAt: new Date(), predictBudget: secondsFlag(flags, "predict-budget", RUN_PREDICT_BUDGET), ...outputs });
+  return finish(sim, { out, quiet: Boolean(flags.quiet), withChecks: !flags["no-checks"], startedAt: new Date(), predictBudget: secondsFlag(flags, "predict-budget", RUN_PREDICT_BUDGET), cache: !flags["no-cache"], ...outputs });
 }
 
 function readReportFile(path: string, label: string): unknown {
@@ -328,10 +339,12 @@ async function cmdDiff(args: string[]): Promise<number> {
 }
 
 async function cmdPredict(args: string[]): Promise<number> {
-  const { flags, positionals } = parse(args, { json: { type: "boolean" }, "predict-budget": { type: "string" } });
+  const { flags, positionals } = parse(args, { json: { type: "boolean" }, "predict-budget": { type: "string" }, tolerance: { type: "string" }, "no-cache": { type: "boolean" } });
   const budgetSeconds = secondsFlag(flags, "predict-budget", PREDICT_BUDGET);
+  const relative = flags.tolerance === undefined ? undefined : Number(flags.tolerance);
+  if (relative !== undefined && !(relative > 0 && relative < 1)) throw new UsageError(`--tolerance: expected a relative error bound in (0, 1), got ${JSON.stringify(flags.tolerance)}`);
   const suite = loadSuite(onePositional(positionals, "predict"));
-  const p = predict(suite, { budgetSeconds });
+  const p = predictCached(suite, { budgetSeconds, meanTargets: relative === undefined ? undefined : { relative } }, { use: !flags["no-cache"] });
   process.stdout.write(flags.json ? JSON.stringify(p, null, 1) + "\n" : renderPredictionTable(p) + "\n");
   return EXIT_OK;
 }

@@ -5,19 +5,32 @@
 //   E[max_j M_j(t)] = int_0^inf (1 - prod_j P(M_j(t) <= x)) dx   (independent walks).
 // Each <S^j_i, e_t> is a 1-D Gaussian walk with steps N(m_t, s_t^2); P(M_j(t) <= x) comes from the
 // Lindley recursion in running-max.ts (exponentially convergent Nyström scheme) [our method].
-// Quadrature in t: the integrand is analytic but has near-kinks of width ~ s / (sqrt(n) |edge|) at the
-// outward normals of the edges of P = conv{0, mu_j}; we use panels graded geometrically towards those
-// directions, with nested Clenshaw–Curtis rules (9 and 5 points) whose difference bounds the error (conservatively:
-// at n = 1000, k = 2 the bound is 3e-7 relative while a finer reference run differs by 3e-11).
+//
+// Accuracy-targeted [our method]: each mean is computed until its error bound is at most the target
+// the caller asks for (CauchyOptions.tolerance: a run asks for 1/10 of its own standard error), not
+// for a fixed time. Quadrature in t: the integrand is analytic but has near-kinks of width
+// ~ s / (sqrt(n) |edge|) at the outward normals of the edges of P = conv{0, mu_j}; panels are graded
+// geometrically towards those directions, then refined adaptively (the panel whose error is largest
+// against its target first): Clenshaw–Curtis rules of 5 and 9 points (nested: every refinement
+// reuses the points already computed), then halving. A panel's error is |Q_N - Q_{N/2}| (the
+// error of the coarser rule: conservative for Q_N) plus the weighted errors of its points.
 // In x: composite 16-point Gauss–Legendre on panels of length 4 min_j s_j.
+// Dominance short cut [derived]: at an angle where one walk b outruns the others, E max_j M_j =
+// E M_b + int F_b (1 - prod_{a != b} F_a) dx, and
+//   0 <= int F_b (1 - prod F_a) <= int P(S^b_n <= x) sum_a min(1, P(M_a >= x)) dx =: D,
+// with P(M_a >= x) <= exp(-theta x + n (theta m + theta^2 s^2 / 2)) for any theta > 0 with
+// theta m + theta^2 s^2 / 2 >= 0 (Doob's maximal inequality for the submartingale exp(theta S_k):
+// common practice). E M_b is exact (Spitzer, see running-max.ts), so the recursion is skipped where
+// D/2 is below 1/10 of the target per 2 pi radians; the value is E M_b + D/2 with error D/2.
 // Hypotheses: Gaussian steps with non-singular covariances (any drifts), k >= 1.
-// Budget: the cost of one recursion is timed first; the largest n of the grid whose estimated cost fits
-// PredictOptions.budgetSeconds is kept, larger n are dropped and reported.
+// Time cap: PredictOptions.budgetSeconds only guards against runaway cost: the largest n whose first
+// pass cannot fit are dropped, and a mean whose bound has not reached its target when the cap is hit
+// is reported with its bound and listed in `missed` (its check is then not gated).
 
 import type { Mat2, Vec2 } from "../suite/schema.js";
 import { driftPolygon } from "./geometry.js";
-import { runningMaxLaw, spitzerMaxMean, type RunningMaxLaw } from "./running-max.js";
-import { gaussLegendre, secondsSince } from "./special.js";
+import { runningMaxLaw, spitzerMaxMeans, type RunningMaxLaw } from "./running-max.js";
+import { gaussLegendre, normCdf, secondsSince } from "./special.js";
 
 export const CAUCHY_SOURCE =
   "Cauchy's formula L = int_0^{2pi} h(theta) d theta with E max_j M_j(theta) by the Lindley recursion [our numerical method, docs/theory.md sec. 5]";
@@ -29,8 +42,12 @@ export interface GaussianWalk {
 
 export interface CauchyResult {
   means: Record<string, number>;
-  /** Estimated absolute error: angular (nested rule difference) + recursion (checked against Spitzer). */
+  /** Error bound of each mean: angular (nested rules) + recursion (checked against Spitzer) + short cuts. */
   errors: Record<string, number>;
+  /** The absolute error bound each mean was asked to reach (same keys as `means`). */
+  targets: Record<string, number>;
+  /** The n whose bound did not reach its target before the time cap (their checks are not gated). */
+  missed: number[];
   reasons: string[];
   /** Wall time spent, seconds. */
   seconds: number;
@@ -39,9 +56,15 @@ export interface CauchyResult {
 }
 
 export interface CauchyOptions {
+  /** Time cap in seconds (default 60): a guard against runaway cost, not the accuracy control. */
   budgetSeconds?: number;
   /** Nyström node spacing (default 0.75). */
   h?: number;
+  /**
+   * The absolute error bound wanted for the mean at n; `estimate` approximates the mean from below
+   * (int max_j E M_j(t) dt) for callers that want a relative target. Default: 1e-6 * estimate.
+   */
+  tolerance?: (n: number, estimate: number) => number;
 }
 
 function ccRule(N: number): { x: Float64Array; w: Float64Array } {
@@ -58,8 +81,17 @@ function ccRule(N: number): { x: Float64Array; w: Float64Array } {
   return { x, w };
 }
 const GROW = 3; // panel growth ratio away from a near-kink
-const NCC = 8; // Clenshaw–Curtis order (nested with NCC / 2)
-const CC_FINE = ccRule(NCC), CC_COARSE = ccRule(NCC / 2);
+const FIRST_ORDER = 4; // Clenshaw–Curtis order of a new panel (5 points; error against the 3-point rule)
+const MAX_ORDER = 8; // past this order a panel is halved (graded panels already sit at the kinks)
+const MAX_PANELS = 4096;
+/** Share of a mean's target the dominance short cuts may use (over the whole circle). */
+const SHORTCUT_SHARE = 0.1;
+const CC_RULES = new Map<number, { x: Float64Array; w: Float64Array }>();
+function cc(N: number): { x: Float64Array; w: Float64Array } {
+  let r = CC_RULES.get(N);
+  if (!r) { r = ccRule(N); CC_RULES.set(N, r); }
+  return r;
+}
 
 /** Angular panels graded towards each breakpoint (angle, width). */
 function angularPanels(breaks: { t: number; width: number }[]): [number, number][] {
@@ -122,78 +154,142 @@ function projected(w: GaussianWalk, t: number): { m: number; s: number } {
   return { m: w.mean[0] * c + w.mean[1] * s, s: Math.sqrt(v) };
 }
 
+/** Upper bound of P(M_n >= x) for steps N(m, s^2), x > 0 (Doob, see the header). */
+function maxTail(m: number, s: number, n: number, x: number): number {
+  const s2 = s * s;
+  const theta = Math.max((x - n * m) / (n * s2), m < 0 ? (-2 * m) / s2 : 0);
+  if (theta <= 0) return 1;
+  return Math.min(1, Math.exp(-theta * x + n * (theta * m + 0.5 * theta * theta * s2)));
+}
+
+/** D = int_0^inf P(S^b_n <= x) sum_{a != b} min(1, P(M_a >= x)) dx (the short cut's bound). */
+function dominanceBound(proj: { m: number; s: number }[], b: number, n: number): number {
+  const rn = Math.sqrt(n);
+  const sb = proj[b].s * rn, cb = n * proj[b].m;
+  let hi = 0, sMin = sb;
+  proj.forEach((p, a) => {
+    if (a === b) return;
+    hi = Math.max(hi, Math.max(n * p.m, 0) + 12 * p.s * rn);
+    sMin = Math.min(sMin, p.s * rn);
+  });
+  const lo = Math.max(0, cb - 12 * sb);
+  // Beyond [lo, hi] one factor is below exp(-72): the pieces there are bounded by 1e-30 per unit scale.
+  let total = 1e-30 * (sb + proj.length * sMin);
+  if (hi <= lo) return total;
+  const gl = gaussLegendre(16);
+  const m = Math.min(400, Math.max(1, Math.ceil((hi - lo) / (0.5 * sMin))));
+  const len = (hi - lo) / m;
+  for (let q = 0; q < m; q++) {
+    const c0 = lo + (q + 0.5) * len;
+    let acc = 0;
+    for (let i = 0; i < gl.x.length; i++) {
+      const x = c0 + 0.5 * len * gl.x[i];
+      let tail = 0;
+      for (let a = 0; a < proj.length && tail < 1; a++) if (a !== b) tail += maxTail(proj[a].m, proj[a].s, n, x);
+      acc += gl.w[i] * normCdf((x - cb) / sb) * Math.min(1, tail);
+    }
+    total += (acc * len) / 2;
+  }
+  return total;
+}
+
+/** Value of E[max_j M_j(t)] at each n of an angle, with the error bound of each value. */
+export interface AngleValue {
+  values: number[];
+  /** Error bound: recursion error (against Spitzer's exact single-walk means) or half the short cut's D. */
+  errors: number[];
+  /** How many n used the dominance short cut (no recursion). */
+  shortcuts: number;
+}
+
 /**
- * E[max_j M_j(t)] at each n of `ns` for one angle, and the recursion's own error estimate
- * sum_j |int (1 - F_j) - E M_j exact| (Spitzer).
+ * E[max_j M_j(t)] at each n of `ns` (ascending) for one angle. `shortcutBelow[q]`: the short cut is
+ * taken at ns[q] when D/2 is at most this (0: never).
  */
 export function expectedMaxAtAngle(
   walks: GaussianWalk[],
   t: number,
   ns: number[],
   h: number,
-  withCheck = true,
-): { values: number[]; recursionError: number[] } {
+  shortcutBelow: number[] = ns.map(() => 0),
+): AngleValue {
   const proj = walks.map((w) => projected(w, t));
-  const cache = new Map<string, RunningMaxLaw>();
+  const exactMax = proj.map((p) => spitzerMaxMeans(p.m / p.s, ns).map((v) => p.s * v));
+  const values = ns.map(() => 0), errors = ns.map(() => 0);
+  const need: number[] = [];
+  let shortcuts = 0;
+  ns.forEach((n, q) => {
+    let b = 0;
+    for (let j = 1; j < proj.length; j++) if (exactMax[j][q] > exactMax[b][q]) b = j;
+    const d = proj.length === 1 ? 0 : shortcutBelow[q] > 0 ? dominanceBound(proj, b, n) : Infinity;
+    if (d / 2 <= shortcutBelow[q] || proj.length === 1) {
+      values[q] = exactMax[b][q] + d / 2;
+      errors[q] = d / 2;
+      shortcuts++;
+    } else {
+      need.push(q);
+    }
+  });
+  if (need.length === 0) return { values, errors, shortcuts };
+  const sub = need.map((q) => ns[q]);
+  const cache = new Map<number, RunningMaxLaw>();
   const laws = proj.map((p) => {
     const r = p.m / p.s;
-    const key = r.toString();
-    let law = cache.get(key);
-    if (!law) { law = runningMaxLaw(r, ns, { h }); cache.set(key, law); }
+    let law = cache.get(r);
+    if (!law) { law = runningMaxLaw(r, sub, { h }); cache.set(r, law); }
     return law;
   });
   const gl = gaussLegendre(16);
   const sMin = Math.min(...proj.map((p) => p.s));
-  const values: number[] = [], recursionError: number[] = [];
-  for (let idx = 0; idx < ns.length; idx++) {
+  const integrate = (g: (x: number) => number, a: number, b: number) => {
+    if (b <= a) return 0;
+    const m = Math.max(1, Math.ceil((b - a) / (4 * sMin)));
+    const len = (b - a) / m;
+    let s = 0;
+    for (let q = 0; q < m; q++) {
+      const c0 = a + (q + 0.5) * len;
+      for (let i = 0; i < gl.x.length; i++) s += gl.w[i] * g(c0 + 0.5 * len * gl.x[i]);
+    }
+    return (s * len) / 2;
+  };
+  need.forEach((q, idx) => {
     let xLo = 0, xHi = 0;
     proj.forEach((p, j) => {
       const [lo, hi] = laws[j].support(idx);
       xLo = Math.max(xLo, p.s * lo);
       xHi = Math.max(xHi, p.s * hi);
     });
-    // Single-walk integrals for the error check, and the k-walk integrand.
-    const integrate = (g: (x: number) => number, a: number, b: number) => {
-      if (b <= a) return 0;
-      const m = Math.max(1, Math.ceil((b - a) / (4 * sMin)));
-      const len = (b - a) / m;
-      let s = 0;
-      for (let q = 0; q < m; q++) {
-        const c0 = a + (q + 0.5) * len;
-        for (let i = 0; i < gl.x.length; i++) s += gl.w[i] * g(c0 + 0.5 * len * gl.x[i]);
-      }
-      return (s * len) / 2;
-    };
-    const value =
-      xLo +
-      integrate((x) => {
-        let prod = 1;
-        for (let j = 0; j < proj.length && prod > 0; j++) prod *= laws[j].cdf(idx, x / proj[j].s);
-        return 1 - prod;
-      }, xLo, xHi);
-    values.push(value);
+    values[q] = xLo + integrate((x) => {
+      let prod = 1;
+      for (let j = 0; j < proj.length && prod > 0; j++) prod *= laws[j].cdf(idx, x / proj[j].s);
+      return 1 - prod;
+    }, xLo, xHi);
+    // The recursion's own error: sum_j |int (1 - F_j) - E M_j exact (Spitzer)|.
     let err = 0;
-    if (!withCheck) {
-      recursionError.push(0);
-      continue;
-    }
-    if (proj.length > 1) {
-      proj.forEach((p, j) => {
-        const [lo, hi] = laws[j].support(idx);
-        const single = p.s * (lo + integrate((y) => 1 - laws[j].cdf(idx, y), lo, hi));
-        err += Math.abs(single - p.s * spitzerMaxMean(p.m / p.s, ns[idx]));
-      });
-    } else {
-      err = Math.abs(value - proj[0].s * spitzerMaxMean(proj[0].m / proj[0].s, ns[idx]));
-    }
-    recursionError.push(err);
-  }
-  return { values, recursionError };
+    proj.forEach((p, j) => {
+      const [lo, hi] = laws[j].support(idx);
+      const single = p.s * (lo + integrate((y) => 1 - laws[j].cdf(idx, y), lo, hi));
+      err += Math.abs(single - exactMax[j][q]);
+    });
+    errors[q] = err;
+  });
+  return { values, errors, shortcuts };
+}
+
+interface Panel {
+  a: number;
+  b: number;
+  /** Clenshaw–Curtis order N (N + 1 points). */
+  order: number;
+  /** Q_N per n, the quadrature error |Q_N - Q_{N/2}|, and the weighted point errors. */
+  value: number[];
+  quadError: number[];
+  pointError: number[];
 }
 
 export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: CauchyOptions = {}): CauchyResult {
   const start = performance.now();
-  const budget = opts.budgetSeconds ?? 20;
+  const budget = opts.budgetSeconds ?? 60;
   const h = opts.h ?? 0.75;
   const reasons: string[] = [];
   walks.forEach((w, j) => {
@@ -203,66 +299,121 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
     }
   });
   let kept = [...ns].sort((a, b) => a - b);
-  // Time one evaluation at the largest n, then keep the largest n that fits the budget.
-  const panelsFor = (n: number) => angularPanels(breakpoints(walks, n)).length;
-  // Warm up (the first call at a new size runs unoptimised code), then time one evaluation.
-  expectedMaxAtAngle(walks, 0.3, [Math.min(kept[0], 50)], h, false);
-  expectedMaxAtAngle(walks, 0.7, kept, h, false);
+  // Targets: from the caller, given int max_j E M_j(t) dt (a Riemann sum on 64 angles) as the estimate.
+  const estimate = kept.map(() => 0);
+  for (let i = 0; i < 64; i++) {
+    const proj = walks.map((w) => projected(w, (i * 2 * Math.PI) / 64));
+    const em = proj.map((p) => spitzerMaxMeans(p.m / p.s, kept).map((v) => p.s * v));
+    kept.forEach((_, q) => { estimate[q] += (Math.max(...em.map((e) => e[q])) * 2 * Math.PI) / 64; });
+  }
+  const tolerance = opts.tolerance ?? ((_n: number, e: number) => 1e-6 * e);
+  let targets = kept.map((n, q) => tolerance(n, estimate[q]));
+  targets.forEach((t, q) => {
+    if (!(t > 0)) throw new Error(`tolerance: the error bound for n = ${kept[q]} must be positive, got ${t}`);
+  });
+  const initialPanels = (n: number) => angularPanels(breakpoints(walks, n));
+  // Time one evaluation at the largest n (after a warm-up), then drop the largest n while the first
+  // pass (FIRST_ORDER + 1 points per panel) would not fit the cap.
+  expectedMaxAtAngle(walks, 0.3, [Math.min(kept[0], 50)], h);
   const t1 = performance.now();
-  expectedMaxAtAngle(walks, 1.1, kept, h, false);
+  expectedMaxAtAngle(walks, 1.1, kept, h);
   const perEval = secondsSince(t1);
   const nTop = kept[kept.length - 1];
-  const estimate = (n: number) => perEval * Math.pow(n / nTop, 1.5) * NCC * panelsFor(n);
-  while (kept.length > 0 && estimate(kept[kept.length - 1]) > budget - secondsSince(start)) {
+  const firstPass = (n: number) => perEval * Math.pow(n / nTop, 1.5) * (FIRST_ORDER * initialPanels(n).length + 1);
+  while (kept.length > 0 && firstPass(kept[kept.length - 1]) > budget - secondsSince(start)) {
     const n = kept.pop()!;
+    targets = targets.slice(0, kept.length);
     reasons.push(
-      `perimeter of ${walks.length} walks at n = ${n}: Cauchy quadrature skipped (estimated ${estimate(n).toFixed(1)} s > budget ${budget.toFixed(1)} s)`,
+      `perimeter of ${walks.length} walks at n = ${n}: Cauchy quadrature skipped (first pass estimated ${firstPass(n).toFixed(1)} s > time cap ${budget.toFixed(1)} s)`,
     );
   }
-  const means: Record<string, number> = {}, errors: Record<string, number> = {};
-  if (kept.length === 0) return { means, errors, reasons, seconds: secondsSince(start), angles: 0 };
-  const panels = angularPanels(breakpoints(walks, kept[kept.length - 1]));
-  const total = kept.map(() => 0), angErr = kept.map(() => 0), recErr = kept.map(() => 0);
-  let angles = 0;
-  let active = kept.length; // kept[0..active) are still being computed
-  panels.forEach(([a, b], pi) => {
-    const panelStart = performance.now();
+  const means: Record<string, number> = {}, errors: Record<string, number> = {}, targetOut: Record<string, number> = {};
+  if (kept.length === 0) return { means, errors, targets: targetOut, missed: [], reasons, seconds: secondsSince(start), angles: 0 };
+  const Q = kept.length;
+  // The short cuts may use at most SHORTCUT_SHARE of the target over the whole circle.
+  const shortcutBelow = targets.map((t) => (SHORTCUT_SHARE * t) / (2 * Math.PI));
+  const seen = new Map<number, AngleValue>();
+  let shortcuts = 0;
+  const at = (t: number): AngleValue => {
+    let v = seen.get(t);
+    if (!v) {
+      v = expectedMaxAtAngle(walks, t, kept, h, shortcutBelow);
+      shortcuts += v.shortcuts;
+      seen.set(t, v);
+    }
+    return v;
+  };
+  const evaluate = (a: number, b: number, order: number): Panel => {
     const half = (b - a) / 2, mid = (a + b) / 2;
-    const ks = kept.slice(0, active);
-    const fine = ks.map(() => 0), crude = ks.map(() => 0);
-    for (let j = 0; j <= NCC; j++) {
-      const t = mid + half * CC_FINE.x[j];
-      // The recursion is checked against Spitzer's exact single-walk mean at each panel's centre.
-      const check = j === NCC / 2;
-      const { values, recursionError } = expectedMaxAtAngle(walks, t, ks, h, check);
-      angles++;
-      for (let q = 0; q < ks.length; q++) {
-        fine[q] += CC_FINE.w[j] * values[q] * half;
-        if (j % 2 === 0) crude[q] += CC_COARSE.w[j / 2] * values[q] * half;
-        if (check) recErr[q] += 2 * half * recursionError[q];
+    const fine = cc(order), coarse = cc(order / 2);
+    const value = new Array<number>(Q).fill(0), crude = new Array<number>(Q).fill(0), pointError = new Array<number>(Q).fill(0);
+    for (let j = 0; j <= order; j++) {
+      const t = j === 0 ? b : j === order ? a : mid + half * fine.x[j];
+      const v = at(t);
+      for (let q = 0; q < Q; q++) {
+        value[q] += fine.w[j] * v.values[q] * half;
+        pointError[q] += fine.w[j] * v.errors[q] * half;
+        if (j % 2 === 0) crude[q] += coarse.w[j / 2] * v.values[q] * half;
       }
     }
-    for (let q = 0; q < ks.length; q++) {
-      total[q] += fine[q];
-      angErr[q] += Math.abs(fine[q] - crude[q]);
+    return { a, b, order, value, quadError: value.map((x, q) => Math.abs(x - crude[q])), pointError };
+  };
+  const panels = initialPanels(kept[Q - 1]).map(([a, b]) => evaluate(a, b, FIRST_ORDER));
+  const totals = () => {
+    const value = new Array<number>(Q).fill(0), error = new Array<number>(Q).fill(0);
+    for (const p of panels) {
+      for (let q = 0; q < Q; q++) {
+        value[q] += p.value[q];
+        error[q] += p.quadError[q] + p.pointError[q];
+      }
     }
-    // Projected time at the pace of this panel: drop the largest n while it would overrun the
-    // budget; each drop rescales the pace by the cost ratio (about n^1.5, as in `estimate`).
-    let pace = secondsSince(panelStart);
-    while (active > 1 && secondsSince(start) + pace * (panels.length - pi - 1) > budget) {
-      active--;
-      pace *= Math.pow(kept[active - 1] / kept[active], 1.5);
-      reasons.push(`perimeter of ${walks.length} walks at n = ${kept[active]}: Cauchy quadrature stopped (time budget ${budget} s)`);
+    // Rounding in the sums (a generous 1e-15 relative per angle).
+    for (let q = 0; q < Q; q++) error[q] += 1e-15 * Math.abs(value[q]) * seen.size;
+    return { value, error };
+  };
+  let sum = totals();
+  let capped = false;
+  for (;;) {
+    const open = kept.map((_, q) => q).filter((q) => !(sum.error[q] <= targets[q]));
+    if (open.length === 0) break;
+    if (secondsSince(start) > budget || panels.length >= MAX_PANELS) { capped = true; break; }
+    // Refine the panel with the largest quadrature error against the targets not yet met.
+    let worst = -1, worstRatio = 0;
+    panels.forEach((p, i) => {
+      for (const q of open) {
+        const ratio = p.quadError[q] / targets[q];
+        if (ratio > worstRatio) { worstRatio = ratio; worst = i; }
+      }
+    });
+    // Nothing left to refine (the point errors alone exceed a target): stop and say so.
+    if (worst < 0 || worstRatio < 1e-6) { capped = true; break; }
+    const p = panels[worst];
+    if (p.order < MAX_ORDER) {
+      panels[worst] = evaluate(p.a, p.b, p.order * 2);
+    } else {
+      const mid = (p.a + p.b) / 2;
+      panels.splice(worst, 1, evaluate(p.a, mid, FIRST_ORDER), evaluate(mid, p.b, FIRST_ORDER));
     }
-  });
-  kept = kept.slice(0, active);
+    sum = totals();
+  }
+  const missed: number[] = [];
   kept.forEach((n, q) => {
-    means[String(n)] = total[q];
-    errors[String(n)] = angErr[q] + recErr[q] + 1e-15 * total[q] * angles;
+    means[String(n)] = sum.value[q];
+    errors[String(n)] = sum.error[q];
+    targetOut[String(n)] = targets[q];
+    if (!(sum.error[q] <= targets[q])) missed.push(n);
   });
   const seconds = secondsSince(start);
   reasons.push(
-    `perimeter of ${walks.length} walks: Cauchy quadrature at n <= ${kept[kept.length - 1]} with ${angles} angles in ${seconds.toFixed(1)} s`,
+    `perimeter of ${walks.length} walks: Cauchy quadrature at n <= ${kept[Q - 1]} with ${seen.size} angles (${panels.length} panels, ` +
+      `${shortcuts} angle-n pairs by the dominance short cut) in ${seconds.toFixed(1)} s`,
   );
-  return { means, errors, reasons, seconds, angles };
+  for (const n of missed) {
+    const key = String(n);
+    reasons.push(
+      `perimeter of ${walks.length} walks at n = ${n}: error bound ${errors[key].toExponential(1)} did not reach the target ` +
+        `${targetOut[key].toExponential(1)} (${capped && secondsSince(start) > budget ? `time cap ${budget} s` : "limit of the method"}): shown, not gated`,
+    );
+  }
+  return { means, errors, targets: targetOut, missed, reasons, seconds, angles: seen.size };
 }

@@ -1,8 +1,10 @@
 // The prediction stage entry point: predict(suite) -> one MeasurePrediction per measure of the suite
 // (same order), with exact finite-n means where a formula applies, and renderPredictionTable.
-// Budget: PredictOptions.budgetSeconds (default 20 s) bounds the numerical quadratures; the cheap
-// exact formulas run first, the k-walk Cauchy quadrature gets what remains and drops the largest n
-// that would not fit (said in `reasons`).
+// Accuracy: each finite-n mean is computed to the error bound PredictOptions.meanTargets asks for
+// (a run asks for 1/10 of its own standard error) and carries that target in exactMeansTarget; a
+// mean that does not reach it says so in `reasons` and is not gated. PredictOptions.budgetSeconds
+// (default 20 s) only caps the numerical quadratures: the cheap exact formulas run first, the k-walk
+// Cauchy quadrature gets what remains and drops the largest n whose first pass would not fit.
 
 import type { Suite } from "../suite/schema.js";
 import { gaussianAreaMeans, BNB_SOURCE } from "./area-mean.js";
@@ -11,7 +13,8 @@ import { diagnose, type Diagnosis } from "./diagnose.js";
 import { isContinuousLaw, stepMoments as lawMoments } from "./laws.js";
 import { secondsSince } from "./special.js";
 import { spitzerWidomMeans } from "./spitzer-widom.js";
-import type { MeasurePrediction, Prediction, PredictionRow, PredictOptions } from "./types.js";
+import type { MeanTargets, MeasurePrediction, Prediction, PredictionRow, PredictOptions } from "./types.js";
+import type { Measure } from "../suite/schema.js";
 import { meanVertexCount } from "./vertices.js";
 import type { StepLaw, Vec2, Mat2 } from "../suite/schema.js";
 
@@ -56,15 +59,50 @@ function rowsFor(p: MeasurePrediction): PredictionRow[] {
     source: src,
   });
   for (const key of Object.keys(p.exactMeans)) {
+    const target = p.exactMeansTarget?.[key];
+    const reached = target === undefined || p.exactMeansError[key] <= target;
     rows.push({
       quantity: `E at n = ${key}`,
       value: `${fmt(p.exactMeans[key])} +- ${p.exactMeansError[key].toExponential(1)}`,
-      hypotheses: "-",
-      verdict: "exact",
+      hypotheses: target === undefined ? "-" : `error bound target ${target.toExponential(1)}${reached ? "" : " not reached"}`,
+      verdict: reached ? "exact" : "not gated",
       source: src,
     });
   }
   return rows;
+}
+
+/** Default relative accuracy of the finite-n means when no target is given. */
+export const DEFAULT_RELATIVE_TARGET = 1e-6;
+
+/** The absolute error bound asked of the mean of `measure` at n, given (an estimate of) the mean. */
+export function meanTarget(targets: MeanTargets | undefined, measure: Measure, n: number, estimate: number): number {
+  const abs = targets?.absolute?.[measure]?.[String(n)];
+  if (abs !== undefined) return abs;
+  return (targets?.relative ?? DEFAULT_RELATIVE_TARGET) * Math.abs(estimate);
+}
+
+function checkTargets(t: MeanTargets | undefined): void {
+  if (!t) return;
+  if (t.relative !== undefined && !(t.relative > 0 && Number.isFinite(t.relative))) throw new Error(`meanTargets.relative: expected a positive number, got ${t.relative}`);
+  for (const [m, byN] of Object.entries(t.absolute ?? {})) {
+    for (const [n, v] of Object.entries(byN ?? {})) {
+      if (!(v > 0 && Number.isFinite(v))) throw new Error(`meanTargets.absolute.${m}.${n}: expected a positive number, got ${v}`);
+    }
+  }
+}
+
+/** Record each mean's target; say so for a mean whose bound did not reach it (unless already said). */
+function recordTargets(p: MeasurePrediction, targets: MeanTargets | undefined, given?: Record<string, number>): void {
+  p.exactMeansTarget = {};
+  for (const key of Object.keys(p.exactMeans)) {
+    const target = given?.[key] ?? meanTarget(targets, p.measure, Number(key), p.exactMeans[key]);
+    p.exactMeansTarget[key] = target;
+    const err = p.exactMeansError[key];
+    if (!(err <= target) && !given) {
+      p.reasons.push(`${p.measure} at n = ${key}: error bound ${err.toExponential(1)} did not reach the target ${target.toExponential(1)}: shown, not gated`);
+    }
+  }
 }
 
 export function predict(suite: Suite, opts: PredictOptions = {}): Prediction {
@@ -74,12 +112,14 @@ export function predict(suite: Suite, opts: PredictOptions = {}): Prediction {
   if (!(budget > 0)) throw new Error("budgetSeconds: expected a positive number");
   const tol = { tie: opts.tieTolerance ?? 1e-9, nearTie: opts.nearTieTolerance ?? 1e-2 };
   if (!(tol.tie > 0 && tol.nearTie >= tol.tie)) throw new Error("tieTolerance: expected 0 < tieTolerance <= nearTieTolerance");
+  checkTargets(opts.meanTargets);
   const diags = diagnose(suite, tol);
   const k = suite.walks.length;
   const remaining = () => Math.max(0.05, budget - secondsSince(start));
   const deferred: (() => void)[] = [];
   const measures: MeasurePrediction[] = diags.map((d: Diagnosis) => {
     const p: MeasurePrediction = { ...d, exactMeans: {}, exactMeansError: {} };
+    const deferredBefore = deferred.length;
     const infinite = suite.walks.some((w) => w.law === "student" && w.dof <= 2);
     if (d.measure === "perimeter") {
       if (k === 1 && !infinite) {
@@ -95,11 +135,15 @@ export function predict(suite: Suite, opts: PredictOptions = {}): Prediction {
         } else {
           // Heavy: run after the cheap predictions so it gets the rest of the budget.
           deferred.push(() => {
-            const r = cauchyMeanPerimeter(suite.walks.map((w) => w.law === "gaussian" ? { mean: w.mean, cov: w.cov } : null!), ns, { budgetSeconds: remaining() });
+            const r = cauchyMeanPerimeter(suite.walks.map((w) => w.law === "gaussian" ? { mean: w.mean, cov: w.cov } : null!), ns, {
+              budgetSeconds: remaining(),
+              tolerance: (n, estimate) => meanTarget(opts.meanTargets, "perimeter", n, estimate),
+            });
             Object.assign(p.exactMeans, r.means);
             Object.assign(p.exactMeansError, r.errors);
             p.reasons.push(...r.reasons);
             if (Object.keys(r.means).length) p.sources.push(CAUCHY_SOURCE);
+            recordTargets(p, opts.meanTargets, r.targets);
           });
         }
       }
@@ -126,6 +170,8 @@ export function predict(suite: Suite, opts: PredictOptions = {}): Prediction {
     } else {
       p.reasons.push("no finite-n formula for the mean diameter");
     }
+    // The deferred Cauchy quadrature records its own targets.
+    if (deferred.length === deferredBefore) recordTargets(p, opts.meanTargets);
     return p;
   });
   for (const run of deferred) run();

@@ -21,6 +21,11 @@ export interface MeasurePrediction {
   exactMeans: Record<string, number>;
   /** Absolute numerical error bound of each exact mean, same keys. */
   exactMeansError: Record<string, number>;
+  /**
+   * The error bound each exact mean was asked to reach (absolute, same keys): in a run, 1/10 of the
+   * run's standard error of the simulated mean. A mean whose exactMeansError exceeds it is shown, not gated.
+   */
+  exactMeansTarget?: Record<string, number>;
   /** Kind of varianceLimit: `estimate` constants are shown, never gate a verdict. */
   varianceLimitKind: ConstantKind | null;
   /** Kind of meanGrowth (same rule). */
@@ -45,11 +50,24 @@ export interface PredictionRow {
 
 export interface Prediction {
   measures: MeasurePrediction[];
+  /** Where the predictions came from: computed now ("miss" or "off" = --no-cache) or the cache ("hit"). */
+  cache?: { status: "hit" | "miss" | "off"; file: string | null };
+}
+
+/**
+ * The accuracy each finite-n mean must reach: absolute bounds per measure and n (a run: SE / 10),
+ * else `relative` times the magnitude of the mean (default 1e-6). Part of the prediction cache key.
+ */
+export interface MeanTargets {
+  absolute?: Partial<Record<Measure, Record<string, number>>>;
+  relative?: number;
 }
 
 export interface PredictOptions {
-  /** Wall-time budget in seconds for numerical quadratures (k-walk Cauchy formula); default 20. */
+  /** Time cap in seconds for numerical quadratures (a guard; accuracy is set by meanTargets); default 20. */
   budgetSeconds?: number;
+  /** Accuracy of the finite-n means (default: 1e-6 relative). */
+  meanTargets?: MeanTargets;
   /** Relative tolerance deciding ties and near-ties (default 1e-9 for ties, 1e-2 for near-ties). */
   tieTolerance?: number;
   nearTieTolerance?: number;
