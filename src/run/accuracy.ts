@@ -4,8 +4,8 @@
 // result, so that a better standard error (e.g. control variates) tightens every target at once.
 
 import { mergeAll, summarize } from "../stats/moments.js";
-import { MEASURES_PER_RECORD } from "../engine/types.js";
-import { MEASURES, type Measure } from "../suite/schema.js";
+import type { Measure } from "../suite/schema.js";
+import { measureBlocks } from "./series.js";
 import type { MeanTargets } from "../theory/types.js";
 import type { SimulationResult } from "./types.js";
 
@@ -14,8 +14,7 @@ export const TARGET_SHARE_OF_SE = 0.1;
 
 /** The error bound the prediction of the mean of `measure` at grid index g must reach: SE / 10. */
 export function requiredMeanAccuracy(sim: SimulationResult, measure: Measure, g: number): number {
-  const mi = MEASURES.indexOf(measure);
-  const s = summarize(mergeAll(sim.blocks.map((b) => b.moments[g * MEASURES_PER_RECORD + mi])));
+  const s = summarize(mergeAll(measureBlocks(sim, measure).map((b) => b[g])));
   return TARGET_SHARE_OF_SE * s.meanSE;
 }
 

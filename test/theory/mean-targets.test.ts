@@ -8,6 +8,7 @@ import type { Mat2, Vec2 } from "../../src/suite/schema.js";
 import type { MeasurePrediction } from "../../src/theory/types.js";
 import { driftPerimeter, synthesise } from "../verdict/synthetic.js";
 import { mergeAll, summarize } from "../../src/stats/moments.js";
+import { measureBlocks } from "../../src/run/series.js";
 
 const walks: { mean: Vec2; cov: Mat2 }[] = [
   { mean: [1, 0], cov: [[1, 0], [0, 1]] },
@@ -49,8 +50,8 @@ describe("targets from the run's own standard error", () => {
     generators: { perimeter: driftPerimeter(6.8, -2, 3.4, 2, 1) },
   });
 
-  // The mean and SE the check reads: moments of all blocks at grid index g (perimeter = measure 0).
-  const rowAt = (g: number) => summarize(mergeAll(sim.blocks.map((b) => b.moments[g * 4])));
+  // The mean and SE the check reads: moments of all blocks at grid index g.
+  const rowAt = (g: number) => summarize(mergeAll(measureBlocks(sim, "perimeter").map((b) => b[g])));
 
   it("requiredMeanAccuracy is SE / 10 of the mean the check reads; runMeanTargets rounds it down to a power of 2", () => {
     const targets = runMeanTargets(sim);
