@@ -56,7 +56,7 @@ export function nextSubstream(): void {
   return result;
 }
 
-const TWO_M53: f64 = 1.1102230246251565e-16;
+export const TWO_M53: f64 = 1.1102230246251565e-16;
 
 /** Uniform on [0, 1) with 53 bits. */
 @inline export function uniform(): f64 {
@@ -207,18 +207,4 @@ export function gammaVariate(shape: f64): f64 {
     if (Math.log(u) < 0.5 * x2 + dd * (1.0 - v + Math.log(v))) return dd * v;
   }
   return 0.0;
-}
-
-/** Bench entry point: the sum of `count` uniforms on [0, 1) (xoshiro256** alone, state in locals). */
-export function benchUniforms(count: i32): f64 {
-  let a = s0, b = s1, c = s2, d = s3;
-  let sum = 0.0;
-  for (let k = 0; k < count; k++) {
-    const r = rotl<u64>(b * 5, 7) * 9;
-    const t = b << 17;
-    c ^= a; d ^= b; b ^= c; a ^= d; c ^= t; d = rotl<u64>(d, 45);
-    sum += <f64>(r >> 11) * TWO_M53;
-  }
-  s0 = a; s1 = b; s2 = c; s3 = d;
-  return sum;
 }

@@ -24,11 +24,13 @@ import { runSuite } from "../src/run/run.js";
 import { validateSuite } from "../src/suite/load.js";
 import type { StepLaw } from "../src/suite/schema.js";
 
-/** Bench-only exports of assembly/index.ts (per-stage entry points). */
+/** Bench-only exports of assembly/bench.ts (build/walkhull.bench.wasm: per-stage entry points). */
 interface BenchExports extends WalkhullExports {
   benchPaths(count: number, level: number): number;
   benchSurvival(): number;
   benchResetStats(): void;
+  /** Points dropped in whole chunks per new point since benchResetStats (bench build only). */
+  benchChunkDropped(): number;
   benchUniforms(count: number): number;
 }
 
@@ -84,6 +86,8 @@ const env = {
   date: new Date().toISOString(),
 };
 const module = loadWasmModuleSync();
+/** The bench build: the release API plus the per-stage entry points and survival counters. */
+const benchModule = loadWasmModuleSync(new URL("../build/walkhull.bench.wasm", import.meta.url));
 
 // ---- Native C build (gcc -O3 -ffp-contract=off), into a temp dir removed at exit.
 const tmp = mkdtempSync(join(os.tmpdir(), "walkhull-bench-"));
@@ -210,13 +214,13 @@ for (const k of KS) {
 // ---- Stages (WASM): cumulative levels of benchPaths; each stage = difference of two levels.
 const FUNCTIONAL_REPS = 8;
 const LEVELS = ["normals", "walk", "filter", "hull", "perimeter", "diameter", "area"] as const;
-interface StageRow { walks: number; n: number; cumulative: number[]; stage: Record<(typeof LEVELS)[number], number>; survival: number }
+interface StageRow { walks: number; n: number; cumulative: number[]; stage: Record<(typeof LEVELS)[number], number>; survival: number; chunkDropped: number }
 const stages: StageRow[] = [];
 const stageBench = new Bench({ name: "stages", ...stageOptions, ...clockOpt });
 const stageKernels = new Map<string, BenchExports>();
 for (const k of KS) {
   for (const n of NS) {
-    const ex = createWasmKernel(module, { walks: compileWalks(lawsFor(k)), grid: [n], seed: 1 }).exports as BenchExports;
+    const ex = createWasmKernel(benchModule, { walks: compileWalks(lawsFor(k)), grid: [n], seed: 1 }).exports as BenchExports;
     stageKernels.set(`k=${k} n=${n}`, ex);
     const paths = pathsFor(n);
     let block = 0;
@@ -233,7 +237,7 @@ for (const k of KS) {
   for (const n of NS) {
     const steps = perCall.get(`k=${k} n=${n}`)!;
     const cumulative = LEVELS.map((_, level) => (meanMs(stageBench, `L${level} k=${k} n=${n}`) * 1e6) / steps);
-    // Levels 4-6 run their functional FUNCTIONAL_REPS times per hull (assembly/simulate.ts benchPaths).
+    // Levels 4-6 run their functional FUNCTIONAL_REPS times per hull (assembly/bench.ts benchPaths).
     const stage = Object.fromEntries(LEVELS.map((name, i) =>
       [name, i === 0 ? cumulative[0] : (cumulative[i] - cumulative[i - 1]) / (i >= 4 ? FUNCTIONAL_REPS : 1)])) as StageRow["stage"];
     const ex = stageKernels.get(`k=${k} n=${n}`)!;
@@ -241,7 +245,7 @@ for (const k of KS) {
     ex.seedBlock(1n, 999n);
     ex.benchPaths(Math.max(8, pathsFor(n)), 2);
     const survival = ex.benchSurvival();
-    stages.push({ walks: k, n, cumulative, stage, survival });
+    stages.push({ walks: k, n, cumulative, stage, survival, chunkDropped: ex.benchChunkDropped() });
     pipeline.find((r) => r.walks === k && r.n === n)!.survival = survival;
   }
 }
@@ -256,7 +260,7 @@ const stepLaws: { name: string; law: StepLaw }[] = [
   { name: "empirical (64 rows)", law: { law: "empirical", file: "(bench: synthetic rows)", steps: Array.from({ length: 64 }, (_, i) => [Math.cos(i), Math.sin(2 * i)] as [number, number]) } },
 ];
 const lawBench = new Bench({ name: "laws", ...benchOptions, ...clockOpt });
-const rngKernel = createWasmKernel(module, { walks: compileWalks([gaussian(0, 0)]), grid: [1], seed: 1 });
+const rngKernel = createWasmKernel(benchModule, { walks: compileWalks([gaussian(0, 0)]), grid: [1], seed: 1 });
 const rex = rngKernel.exports as BenchExports;
 const wasmNormals = rex.allocF64(2 * DRAWS);
 const twinNormals = new Float64Array(2 * DRAWS);
@@ -363,12 +367,12 @@ out.push("| walks | n | WASM | TS twin | native C | numpy+scipy | twin/WASM | WA
 out.push("|---|---|---|---|---|---|---|---|---|---|");
 for (const r of pipeline) out.push(`| ${r.walks} | ${r.n} | ${f1(r.wasm)} | ${f1(r.twin)} | ${f1(r.native)} | ${f1(r.numpy)} | ${f2(r.twinOverWasm)} | ${f2(r.wasmOverNative)} | ${f1(r.numpyOverWasm)} | ${(100 * r.survival).toFixed(1)}% |`);
 out.push(`\nWASM stages, ns per step (differences of cumulative runs: normals, + walk positions, + extremes & filter, + sort & chain, + each functional timed ${FUNCTIONAL_REPS}x per hull and divided; noise can make a small stage negative)`);
-out.push(`| walks | n | normals | walk | filter | hull | perimeter | diameter | area | sum | full pipeline |`);
-out.push("|---|---|---|---|---|---|---|---|---|---|---|");
+out.push(`| walks | n | normals | walk | filter | hull | perimeter | diameter | area | sum | full pipeline | dropped in whole chunks |`);
+out.push("|---|---|---|---|---|---|---|---|---|---|---|---|");
 for (const s of stages) {
   const full = at(s.walks, s.n)!.wasm;
   const sum = LEVELS.reduce((t, l) => t + s.stage[l], 0);
-  out.push(`| ${s.walks} | ${s.n} | ${LEVELS.map((l) => f1(s.stage[l])).join(" | ")} | ${f1(sum)} | ${f1(full)} |`);
+  out.push(`| ${s.walks} | ${s.n} | ${LEVELS.map((l) => f1(s.stage[l])).join(" | ")} | ${f1(sum)} | ${f1(full)} | ${(100 * s.chunkDropped).toFixed(0)}% |`);
 }
 out.push("\nDraws, ns per draw");
 out.push("| draw | WASM | TS twin | native C | twin/WASM | WASM/native |");

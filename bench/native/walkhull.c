@@ -234,7 +234,7 @@ static double diameter(const double *hx, const double *hy, int h) {
   return sqrt(best);
 }
 
-/* ---- The path pipeline (assembly/simulate.ts) ---- */
+/* ---- The path pipeline (assembly/paths.ts) ---- */
 static int K, N, G, *grid;
 static double *params; /* K * 5 */
 static double *PX, *PY, *NZ, *CX, *CY, *HX, *HY, *SEG;
@@ -257,7 +257,7 @@ static void setFrame(double cnt, double sx, double sy, double sxx, double sxy, d
 /* Chunks of CHUNK points: bounding boxes (BOX) for filterGroup's whole-chunk test; extremes from
  * per-chunk maxima, the first chunk holding each rescanned for its first point with it; groups of
  * GUIDED_MIN points or more evaluate only the chunks whose corner bounds (BND) may hold an extreme
- * (as assembly/simulate.ts gatherGroup, scalar). */
+ * (as assembly/extremes.ts gatherGroup, scalar). */
 #define CHUNK 32
 #define GUIDED_MIN 2048
 static double *BOX, *BND;

@@ -1,4 +1,4 @@
-// Plain-TS twin of the WASM kernel (assembly/laws.ts, assembly/simulate.ts): the same algorithms,
+// Plain-TS twin of the WASM kernel (assembly/laws.ts, walks.ts, extremes.ts, filters.ts, paths.ts): the same algorithms,
 // streams and draw order, so both give the same values (up to last-ulp differences of
 // exp/log/cos/sin/pow between V8 and AssemblyScript's math library; see ./prng.ts). It is the
 // oracle of the kernel tests and the JS baseline of the bench.
@@ -105,7 +105,7 @@ export class TwinKernel implements Kernel {
   private readonly polyY = new Float64Array(8);
   private hullCount = 0;
   private candCount = 0;
-  // Frame and extremes (see assembly/simulate.ts).
+  // Frame and extremes (see assembly/setup.ts and extremes.ts).
   private fa = 1; private fb = 0; private fc = 1;
   private ext = new Float64Array(8);
   private exX = new Float64Array(8);
@@ -187,7 +187,7 @@ export class TwinKernel implements Kernel {
     this.candCount = w;
   }
 
-  /** The conservative filter of assembly/simulate.ts filterCandidates (proof there). */
+  /** The conservative filter of assembly/filters.ts filterGroup (proof there). */
   private filterCandidates(start: number): number {
     const count = this.candCount;
     if (count - start < FILTER_MIN) return count;
@@ -233,7 +233,7 @@ export class TwinKernel implements Kernel {
     this.candCount = w;
   }
 
-  /** As assembly/simulate.ts runPath: per-walk frames and filters, one chain per grid n. */
+  /** As assembly/paths.ts runPath: per-walk frames and filters, one chain per grid n. */
   private runPath(out: Float64Array, offset: number, ctl: Float64Array | null, ctlOffset: number): void {
     const { k, nMax: N, grid, PX, PY, SX, SY, NZ, SEG } = this;
     const G = grid.length;
@@ -280,7 +280,7 @@ export class TwinKernel implements Kernel {
     }
   }
 
-  /** As assembly/simulate.ts writeControls: centred endpoint and integrated path of each walk at n = hi. */
+  /** As assembly/walks.ts writeControls: centred endpoint and integrated path of each walk at n = hi. */
   private writeControls(ctl: Float64Array, offset: number, g: number, hi: number): void {
     const { k, nMax: N, grid, PX, PY, SEG } = this;
     const G = grid.length;

@@ -17,20 +17,21 @@ function missing(err: unknown): Error {
   );
 }
 
-export async function loadWasmModule(): Promise<WebAssembly.Module> {
+export async function loadWasmModule(url: URL = WASM_URL): Promise<WebAssembly.Module> {
   let bytes: Buffer;
   try {
-    bytes = await readFile(WASM_URL);
+    bytes = await readFile(url);
   } catch (err) {
     throw missing(err);
   }
   return WebAssembly.compile(new Uint8Array(bytes));
 }
 
-export function loadWasmModuleSync(): WebAssembly.Module {
+/** The compiled kernel (default build/walkhull.wasm; the bench passes build/walkhull.bench.wasm). */
+export function loadWasmModuleSync(url: URL = WASM_URL): WebAssembly.Module {
   let bytes: Buffer;
   try {
-    bytes = readFileSync(WASM_URL);
+    bytes = readFileSync(url);
   } catch (err) {
     throw missing(err);
   }
