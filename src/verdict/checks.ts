@@ -7,6 +7,7 @@
 // uncalibrated variances, too small a kept sample) are reported `inconclusive` and not gated.
 // Methods: src/verdict/extrapolate.ts (limits), src/verdict/normality.ts (laws), src/stats/*.
 
+import { LILLIEFORS_P_FLOOR } from "../stats/lilliefors.js";
 import { holm } from "../stats/holm.js";
 import { mergeAll, summarize } from "../stats/moments.js";
 import { normalQuantile, twoSidedNormalP } from "../stats/normal.js";
@@ -163,7 +164,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
     return (
       `KS distance to the normal family at n = ${ev.n} (m = ${d.size} kept paths, ${d.metric === "midpoints" ? `continuity-corrected: ${(100 * d.tiedFraction).toFixed(0)}% tied values` : "exact"}): ` +
       `${fmt(d.minimum, 3)}, ${(100 * (1 - alpha)).toFixed(0)}% DKW upper bound ${fmt(d.upperBound, 3)} vs tolerance ${tol}; ` +
-      `Lilliefors D = ${fmt(ev.lillieforsD, 3)} (p = ${fmtP(ev.lillieforsP)}), Anderson-Darling A* = ${fmt(ev.anderson.modified, 3)} (p = ${Number.isNaN(ev.anderson.pValue) ? "-" : fmtP(ev.anderson.pValue)})${d.tiedFraction > 0 ? " (ties: p-values too small)" : ""}; ` +
+      `Lilliefors D = ${fmt(ev.lillieforsD, 3)} (p ${ev.lillieforsP >= LILLIEFORS_P_FLOOR ? `>= ${LILLIEFORS_P_FLOOR}` : `= ${fmtP(ev.lillieforsP)}`}), Anderson-Darling A* = ${fmt(ev.anderson.modified, 3)} (p = ${Number.isNaN(ev.anderson.pValue) ? "-" : fmtP(ev.anderson.pValue)})${d.tiedFraction > 0 ? " (ties: p-values too small)" : ""}; ` +
       `skewness ${fmt(ev.skewness, 3)} (z = ${fmt(ev.skewnessZ, 3)}), excess-kurtosis z = ${fmt(ev.kurtosisZ, 3)}; ` +
       (ev.skewGrowth ? `growth of |skewness| from n = ${grid[0]}: z = ${fmt(ev.skewGrowth.z, 3)}; ` : "skewness trend not assessable with one n; ") +
       (ev.skewPersistence ? `|skewness| above the n^-1/2 decay of a normal limit: z = ${fmt(ev.skewPersistence.z, 3)}; ` : "") +
