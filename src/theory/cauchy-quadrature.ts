@@ -14,7 +14,7 @@
 // against its target first): Clenshaw–Curtis rules of 5 and 9 points (nested: every refinement
 // reuses the points already computed), then halving. A panel's error is |Q_N - Q_{N/2}| (the
 // error of the coarser rule: conservative for Q_N) plus the weighted errors of its points.
-// In x: composite 16-point Gauss–Legendre on panels of length 4 min_j s_j.
+// In x: composite 16-point Gauss–Legendre on panels graded from 4 min_j s_j up to 2 sqrt(n) min_j s_j.
 // Dominance short cut [derived]: at an angle where one walk b outruns the others, E max_j M_j =
 // E M_b + int F_b (1 - prod_{a != b} F_a) dx, and
 //   0 <= int F_b (1 - prod F_a) <= int P(S^b_n <= x) sum_a min(1, P(M_a >= x)) dx =: D,
@@ -241,16 +241,18 @@ export function expectedMaxAtAngle(
   });
   const gl = gaussLegendre(16);
   const sMin = Math.min(...proj.map((p) => p.s));
-  const integrate = (g: (x: number) => number, a: number, b: number) => {
-    if (b <= a) return 0;
-    const m = Math.max(1, Math.ceil((b - a) / (4 * sMin)));
-    const len = (b - a) / m;
+  // Panels of 16-point Gauss–Legendre from a, 4 sMin long, growing by 3/2 up to 2 sMin sqrt(n): the
+  // laws vary on the scale of one step near where they start and of sqrt(n) steps in the bulk.
+  const integrate = (g: (x: number) => number, a: number, b: number, n: number) => {
     let s = 0;
-    for (let q = 0; q < m; q++) {
-      const c0 = a + (q + 0.5) * len;
-      for (let i = 0; i < gl.x.length; i++) s += gl.w[i] * g(c0 + 0.5 * len * gl.x[i]);
+    const cap = Math.max(4, 2 * Math.sqrt(n)) * sMin;
+    for (let x0 = a, len = 4 * sMin; x0 < b; x0 += len, len = Math.min(cap, 1.5 * len)) {
+      const l = Math.min(len, b - x0), c0 = x0 + 0.5 * l;
+      let p = 0;
+      for (let i = 0; i < gl.x.length; i++) p += gl.w[i] * g(c0 + 0.5 * l * gl.x[i]);
+      s += (p * l) / 2;
     }
-    return (s * len) / 2;
+    return s;
   };
   need.forEach((q, idx) => {
     let xLo = 0, xHi = 0;
@@ -263,12 +265,12 @@ export function expectedMaxAtAngle(
       let prod = 1;
       for (let j = 0; j < proj.length && prod > 0; j++) prod *= laws[j].cdf(idx, x / proj[j].s);
       return 1 - prod;
-    }, xLo, xHi);
+    }, xLo, xHi, ns[q]);
     // The recursion's own error: sum_j |int (1 - F_j) - E M_j exact (Spitzer)|.
     let err = 0;
     proj.forEach((p, j) => {
       const [lo, hi] = laws[j].support(idx);
-      const single = p.s * (lo + integrate((y) => 1 - laws[j].cdf(idx, y), lo, hi));
+      const single = p.s * (lo + integrate((y) => 1 - laws[j].cdf(idx, y), lo, hi, ns[q]));
       err += Math.abs(single - exactMax[j][q]);
     });
     errors[q] = err;

@@ -13,6 +13,7 @@
 // theory", Trans. AMS 82 (1956)), see `spitzerMaxMean`.
 // Cost: O(n^{3/2} / h^2) flops (window of width ~18 sqrt(i) around the drift, band ~19/h nodes).
 
+import { readFileSync } from "node:fs";
 import { INV_SQRT_2PI, normCdf, positivePartMean } from "./special.js";
 
 const TAIL = 9.5; // |x| beyond which phi(x) < 1e-19: kernel band half-width
@@ -33,6 +34,8 @@ export interface GridOptions {
   h?: number;
   /** Clustering scale c of psi (default 1). */
   c?: number;
+  /** The recursion's engine: build/lindley.wasm when built (default), or TypeScript ("js"). */
+  engine?: "wasm" | "js";
 }
 
 export function runningMaxLaw(r: number, ns: number[], opts: GridOptions = {}): RunningMaxLaw {
@@ -78,6 +81,46 @@ export function runningMaxLaw(r: number, ns: number[], opts: GridOptions = {}): 
   const zEnd = z[N - 1] + h / 2;
   const beyond = new Float64Array(N);
   for (let a = 0; a < N; a++) beyond[a] = normCdf(z[a] - r - zEnd);
+  const band: Band = { N, r, z, K, off, bLo, bHi, beyond };
+  const wasm = opts.engine === "js" ? null : lindleyModule();
+  const saved = wasm ? stepsWasm(wasm, band, ns) : stepsJs(band, ns, firstAtLeast);
+  // saved[j] holds u_{ns[j]-1}; one more kernel application gives u_{ns[j]} anywhere.
+  const cdf = (idx: number, y: number): number => {
+    const { u, lo: l, hi: hh } = saved[idx];
+    // Past the support the cdf is 1 to 1e-13 (and the grid may end there).
+    if (y >= z[Math.min(hh, N - 1)] + r + TAIL) return 1;
+    const b0 = Math.max(l, firstAtLeast(y - r - TAIL)), b1 = Math.min(N, firstAtLeast(y - r + TAIL));
+    let s = 0;
+    for (let b = b0; b < b1; b++) {
+      const d = y - z[b] - r;
+      s += w[b] * u[b] * INV_SQRT_2PI * Math.exp(-0.5 * d * d);
+    }
+    if (b1 === N) s += normCdf(y - r - zEnd);
+    return s > 1 ? 1 : s;
+  };
+  const support = (idx: number): [number, number] => {
+    const { lo: l, hi: hh } = saved[idx];
+    return [Math.max(0, z[l] + r - TAIL), z[Math.min(hh, N - 1)] + r + TAIL];
+  };
+  return { r, ns, cdf, support };
+}
+
+/** The discretised kernel: nodes z, band K (row a: columns bLo[a]..bHi[a], from off[a]), mass past the end. */
+interface Band {
+  N: number;
+  r: number;
+  z: Float64Array;
+  K: Float64Array;
+  off: Int32Array;
+  bLo: Int32Array;
+  bHi: Int32Array;
+  beyond: Float64Array;
+}
+type Saved = { u: Float64Array; lo: number; hi: number }[];
+
+/** u_{ns[j]-1} for every j, with its window (lo, hi): the recursion in TypeScript (fallback and oracle). */
+function stepsJs({ N, r, z, K, off, bLo, bHi, beyond }: Band, ns: number[], firstAtLeast: (y: number) => number): Saved {
+  const n = ns[ns.length - 1];
   let cur = new Float64Array(N).fill(1), nxt = new Float64Array(N).fill(1);
   let lo = 0; // nodes below lo hold values < 1e-30 (ignored)
   let hi = 0; // nodes at or above hi hold 1 - 1e-17 or more
@@ -117,25 +160,48 @@ export function runningMaxLaw(r: number, ns: number[], opts: GridOptions = {}): 
     lo = newLo;
     hi = Math.max(newHi, lo);
   }
-  // saved[j] holds u_{ns[j]-1}; one more kernel application gives u_{ns[j]} anywhere.
-  const cdf = (idx: number, y: number): number => {
-    const { u, lo: l, hi: hh } = saved[idx];
-    // Past the support the cdf is 1 to 1e-13 (and the grid may end there).
-    if (y >= z[Math.min(hh, N - 1)] + r + TAIL) return 1;
-    const b0 = Math.max(l, firstAtLeast(y - r - TAIL)), b1 = Math.min(N, firstAtLeast(y - r + TAIL));
-    let s = 0;
-    for (let b = b0; b < b1; b++) {
-      const d = y - z[b] - r;
-      s += w[b] * u[b] * INV_SQRT_2PI * Math.exp(-0.5 * d * d);
+  return saved;
+}
+
+/** The same recursion in build/lindley.wasm (assembly/lindley.ts: SIMD, ~3x faster). */
+function stepsWasm(w: LindleyExports, { N, r, z, K, off, bLo, bHi, beyond }: Band, ns: number[]): Saved {
+  const count = ns.length;
+  const f64 = [N, N, N, N, K.length, count * N], i32 = [N + 1, N, N, count, 2 * count];
+  const bytes = 8 * f64.reduce((x, y) => x + y, 0) + 4 * i32.reduce((x, y) => x + y, 0) + 64;
+  const base = w.reserve(bytes);
+  const buf = w.memory.buffer;
+  let at = base;
+  const f = (len: number) => { const v = new Float64Array(buf, at, len); at += 8 * len; return v; };
+  const i = (len: number) => { const v = new Int32Array(buf, at, len); at += 4 * len; return v; };
+  const [zW, beyondW, curW, nxtW, KW, savedW] = f64.map(f);
+  const [offW, bLoW, bHiW, nsW, loHiW] = i32.map(i);
+  zW.set(z); beyondW.set(beyond); KW.set(K); offW.set(off); bLoW.set(bLo); bHiW.set(bHi); nsW.set(ns);
+  curW.fill(1); nxtW.fill(1);
+  w.lindleySteps(N, r, TAIL, zW.byteOffset, KW.byteOffset, offW.byteOffset, bLoW.byteOffset, bHiW.byteOffset, beyondW.byteOffset,
+    curW.byteOffset, nxtW.byteOffset, nsW.byteOffset, count, savedW.byteOffset, loHiW.byteOffset);
+  return ns.map((_, j) => ({ u: savedW.slice(j * N, (j + 1) * N), lo: loHiW[2 * j], hi: loHiW[2 * j + 1] }));
+}
+
+interface LindleyExports {
+  memory: WebAssembly.Memory;
+  reserve(bytes: number): number;
+  lindleySteps(N: number, r: number, tail: number, z: number, K: number, off: number, bLo: number, bHi: number, beyond: number,
+    cur: number, nxt: number, ns: number, count: number, saved: number, savedLoHi: number): void;
+}
+
+/** build/lindley.wasm (two levels below the project root from src/theory and dist/theory), or null when not built. */
+const LINDLEY_URL = new URL("../../build/lindley.wasm", import.meta.url);
+let lindley: LindleyExports | null | undefined;
+export function lindleyModule(): LindleyExports | null {
+  if (lindley === undefined) {
+    try {
+      const module = new WebAssembly.Module(readFileSync(LINDLEY_URL));
+      lindley = new WebAssembly.Instance(module, { env: { abort: () => { throw new Error("lindley.wasm: abort"); } } }).exports as unknown as LindleyExports;
+    } catch {
+      lindley = null;
     }
-    if (b1 === N) s += normCdf(y - r - zEnd);
-    return s > 1 ? 1 : s;
-  };
-  const support = (idx: number): [number, number] => {
-    const { lo: l, hi: hh } = saved[idx];
-    return [Math.max(0, z[l] + r - TAIL), z[Math.min(hh, N - 1)] + r + TAIL];
-  };
-  return { r, ns, cdf, support };
+  }
+  return lindley;
 }
 
 /** Exact E M_n for steps N(r, 1) (Spitzer): sum_{k<=n} E[S_k^+]/k, S_k ~ N(k r, k). */

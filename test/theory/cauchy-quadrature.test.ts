@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { cauchyMeanPerimeter } from "../../src/theory/cauchy-quadrature.js";
-import { runningMaxLaw, spitzerMaxMean } from "../../src/theory/running-max.js";
+import { lindleyModule, runningMaxLaw, spitzerMaxMean, spitzerMaxMeans } from "../../src/theory/running-max.js";
 import { spitzerWidomMeans } from "../../src/theory/spitzer-widom.js";
 import type { Mat2, Vec2 } from "../../src/suite/schema.js";
 import { hullOf, meanSE, normalSource } from "./helpers.js";
@@ -19,6 +19,29 @@ describe("running maximum by the Lindley recursion vs Spitzer's E M_n = sum E[S_
         expect(Math.abs((s * H) / 3 - exact)).toBeLessThan(1e-8 * Math.max(1, exact));
       }
     }
+  });
+});
+
+describe("the recursion in build/lindley.wasm (SIMD) against its TypeScript twin", () => {
+  it("is built, and gives the same windows and cdf values to 1e-14", () => {
+    expect(lindleyModule()).not.toBeNull();
+    for (const r of [-0.7, 0, 0.1, 0.9]) {
+      const js = runningMaxLaw(r, [7, 150, 400], { h: 0.75, engine: "js" });
+      const wasm = runningMaxLaw(r, [7, 150, 400], { h: 0.75, engine: "wasm" });
+      for (let idx = 0; idx < 3; idx++) {
+        expect(wasm.support(idx)).toEqual(js.support(idx));
+        const [lo, hi] = js.support(idx);
+        for (let k = 0; k <= 100; k++) {
+          const y = lo + ((hi - lo) * k) / 100;
+          expect(Math.abs(wasm.cdf(idx, y) - js.cdf(idx, y))).toBeLessThanOrEqual(1e-14);
+        }
+      }
+    }
+  });
+
+  it("spitzerMaxMeans gives spitzerMaxMean at every n in one pass", () => {
+    const ns = [1, 2, 9, 100];
+    spitzerMaxMeans(0.3, ns).forEach((v, i) => expect(v).toBeCloseTo(spitzerMaxMean(0.3, ns[i]), 12));
   });
 });
 
