@@ -1,4 +1,5 @@
-// Functionals of a hull given as h strict vertices, counter-clockwise (from monotoneChain).
+// Functionals of a hull given as h strict vertices, counter-clockwise (from monotoneChain), and
+// the record they are written to: the measures at their slots of src/geometry/measure-registry.ts.
 
 import { crossSign } from "./hull";
 
@@ -74,4 +75,15 @@ export function diameter(hx: usize, hy: usize, h: i32): f64 {
     if (d > best) best = d;
   }
   return Math.sqrt(best);
+}
+
+/** Measures per grid point of a path's record (the registry's MEASURE_COUNT). */
+export const MEASURE_COUNT: i32 = 4;
+
+/** Every measure of the hull hx/hy (h vertices) at its registry slot of the record at r. */
+export function writeMeasures(r: usize, hx: usize, hy: usize, h: i32): void {
+  store<f64>(r, perimeter(hx, hy, h));
+  store<f64>(r + 8, diameter(hx, hy, h));
+  store<f64>(r + 16, area(hx, hy, h));
+  store<f64>(r + 24, <f64>h);
 }

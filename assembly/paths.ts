@@ -8,7 +8,7 @@
 
 import { append, candCount, clearCandidates, filterSecondPass, gatherAndFilter } from "./filters";
 import { monotoneChain, sortPoints } from "./hull";
-import { area, diameter, perimeter } from "./measures";
+import { writeMeasures } from "./measures";
 import { controlBytes, CX, CY, G, gridAt, HX, HY, K, PX, PY, recordAt, recordBytes, segSums, setFrameFromSums, walkPoint } from "./setup";
 import { generateWalks, writeControls } from "./walks";
 
@@ -45,14 +45,6 @@ export function filterStep(g: i32, prev: i32, hi: i32): void {
   filterSecondPass(g, hi);
 }
 
-/** The measures of the hull in HX/HY (h vertices) at their slots of the record at r. */
-export function writeMeasures(r: usize, h: i32): void {
-  store<f64>(r, perimeter(HX, HY, h));
-  store<f64>(r + 8, diameter(HX, HY, h));
-  store<f64>(r + 16, area(HX, HY, h));
-  store<f64>(r + 24, <f64>h);
-}
-
 /** Simulates one path: the measures per grid point into the record at out, the controls into ctl. */
 export function runPath(out: usize, ctl: usize): void {
   generateWalks();
@@ -60,7 +52,7 @@ export function runPath(out: usize, ctl: usize): void {
   for (let g = 0; g < G; g++) {
     const hi = gridAt(g);
     filterStep(g, prev, hi);
-    writeMeasures(recordAt(out, g), chainCandidates());
+    writeMeasures(recordAt(out, g), HX, HY, chainCandidates());
     writeControls(ctl, g, hi);
     prev = hi;
   }

@@ -2,6 +2,7 @@
 // every path), the accessors that know their layout, and the normalising frame of a point cloud.
 
 import { seedBlockStream } from "./rng";
+import { MEASURE_COUNT } from "./measures";
 
 export let K: i32 = 0; // walks
 export let N: i32 = 0; // n_max
@@ -23,7 +24,7 @@ export let BND: usize = 0; // f64[8 * chunks]: per chunk, bounds on u, v, u + v,
 export const CHUNK: i32 = 32;
 
 /** Numbers per grid point of a path's output record (the measures at their registry slots). */
-export const RECORD_PER_POINT: i32 = 4;
+export const RECORD_PER_POINT: i32 = MEASURE_COUNT;
 /** Control values per walk and grid point: centred endpoint (x, y), centred integrated path (x, y). */
 export const CONTROLS_PER_WALK: i32 = 4;
 

@@ -4,8 +4,9 @@ import { nextSubstream } from "./rng";
 import { drawStepsInto } from "./laws";
 import { append, clearCandidates, filterGroup } from "./filters";
 import { gatherGroup } from "./extremes";
-import { chainCandidates, clearHull, hullCount, writeMeasures } from "./paths";
-import { lawCode, lawParams, setFrame } from "./setup";
+import { chainCandidates, clearHull, hullCount } from "./paths";
+import { writeMeasures } from "./measures";
+import { HX, HY, lawCode, lawParams, setFrame } from "./setup";
 
 /** `count` steps of walk j from the first substream of (seed, block). */
 export function drawSteps(j: i32, count: i32, sx: usize, sy: usize, scratch: usize): void {
@@ -36,5 +37,5 @@ export function hullOfPoints(xs: usize, ys: usize, count: i32, useFilter: bool):
 
 /** The measures of the current hull into out (a record of one grid point). */
 export function measureHull(out: usize): void {
-  writeMeasures(out, hullCount);
+  writeMeasures(out, HX, HY, hullCount);
 }

@@ -9,7 +9,7 @@
  *
  * Usage:
  *   walkhull-native ZIGFILE values SEED BLOCK PATHS GRID K [mx my l11 l21 l22]*K
- *       -> PATHS * |GRID| * 4 doubles (perimeter, diameter, area, vertices) on stdout, binary
+ *       -> PATHS * |GRID| * MEASURE_COUNT doubles (the measures in registry slot order) on stdout, binary
  *   walkhull-native ZIGFILE time SEED BLOCK PATHS GRID K [...] REPS
  *       -> "seconds per call" (mean over REPS calls of PATHS paths each, after one warm-up call)
  *   walkhull-native ZIGFILE normals COUNT REPS
@@ -232,6 +232,13 @@ static double diameter(const double *hx, const double *hy, int h) {
     d = dist2(hx, hy, i1, j1); if (d > best) best = d;
   }
   return sqrt(best);
+}
+
+/* The record of one grid point: every measure at its slot (src/geometry/measure-registry.ts),
+ * as assembly/measures.ts writeMeasures. */
+#define MEASURE_COUNT 4
+static void writeMeasures(double *r, const double *hx, const double *hy, int h) {
+  r[0] = perimeter(hx, hy, h); r[1] = diameter(hx, hy, h); r[2] = area(hx, hy, h); r[3] = (double)h;
 }
 
 /* ---- The path pipeline (assembly/paths.ts) ---- */
@@ -474,8 +481,7 @@ static void runPath(double *out) {
     else filterRotated();
     sortPoints(CX, CY, 0, candCount - 1);
     int h = hullCount = monotoneChain(CX, CY, candCount, HX, HY);
-    double *r = out + 4 * g;
-    r[0] = perimeter(HX, HY, h); r[1] = diameter(HX, HY, h); r[2] = area(HX, HY, h); r[3] = (double)h;
+    writeMeasures(out + MEASURE_COUNT * g, HX, HY, h);
     prev = hi;
   }
 }
@@ -542,21 +548,21 @@ int main(int argc, char **argv) {
   params = allocD(5 * (size_t)k);
   for (int i = 0; i < 5 * k; i++) params[i] = strtod(argv[8 + i], NULL);
   setupKernel(k, gr, g);
-  double *out = allocD((size_t)paths * g * 4);
+  double *out = allocD((size_t)paths * g * MEASURE_COUNT);
   if (strcmp(mode, "values") == 0) {
     seedBlockStream(seed, block);
-    for (int p = 0; p < paths; p++) runPath(out + (size_t)p * g * 4);
-    fwrite(out, sizeof(double), (size_t)paths * g * 4, stdout);
+    for (int p = 0; p < paths; p++) runPath(out + (size_t)p * g * MEASURE_COUNT);
+    fwrite(out, sizeof(double), (size_t)paths * g * MEASURE_COUNT, stdout);
     return 0;
   }
   if (strcmp(mode, "time") == 0) {
     int reps = argc > 8 + 5 * k ? atoi(argv[8 + 5 * k]) : 5;
     seedBlockStream(seed, block);
-    for (int p = 0; p < paths; p++) runPath(out + (size_t)p * g * 4);
+    for (int p = 0; p < paths; p++) runPath(out + (size_t)p * g * MEASURE_COUNT);
     double t0 = now();
     for (int r = 0; r < reps; r++) {
       seedBlockStream(seed, block + 1 + r);
-      for (int p = 0; p < paths; p++) runPath(out + (size_t)p * g * 4);
+      for (int p = 0; p < paths; p++) runPath(out + (size_t)p * g * MEASURE_COUNT);
     }
     printf("%.9g %g\n", (now() - t0) / reps, out[0]);
     return 0;

@@ -72,7 +72,7 @@ export interface WasmKernel extends Kernel {
   drawSteps(block: number, j: number, count: number): { x: Float64Array; y: Float64Array };
   /**
    * Hull of a point set through the kernel's filter + chain; count <= k * (nMax + 1).
-   * Returns the vertices and [perimeter, diameter, area, vertices].
+   * Returns the vertices and the measures in registry slot order.
    */
   hullOfPoints(xs: ArrayLike<number>, ys: ArrayLike<number>, useFilter?: boolean): { x: Float64Array; y: Float64Array; measures: Float64Array };
   /** `count` normals (ziggurat or polar) from the first substream of (seed, block) (bench). */

@@ -7,7 +7,7 @@
 // slow-convergence risk (the limit only shows once sqrt(n) * gap dominates the fluctuations).
 
 import type { Mat2, Measure, Suite, Vec2 } from "../suite/schema.js";
-import { measureSpec } from "../geometry/measure-registry.js";
+import { MEASURES, measureSpec } from "../geometry/measure-registry.js";
 import { BETA_ISOTROPIC, brownianAreaOneWalk, brownianPerimeterConstant, RMC_SOURCE, SCALING_LIMIT_SOURCE, U0_ESTIMATE, V0_ESTIMATE } from "./brownian-limits.js";
 import { oneWalkDriftArea } from "./drift-area.js";
 import { dist, driftPolygon, locate, type DriftPolygon } from "./geometry.js";
@@ -353,7 +353,13 @@ export function diagnose(suite: Suite, tol: Tolerances): Diagnosis[] {
       case "diameter": return diagnoseDiameter(c);
       case "area": return diagnoseArea(c);
       case "vertices": return diagnoseVertices(c, suite);
-      default: throw new Error(`measure[${i}]: unknown measure ${JSON.stringify(m)}`);
+      default: {
+        // A measure of the registry that no theorem here covers: estimated, never predicted.
+        if (!(MEASURES as readonly string[]).includes(m)) throw new Error(`measure[${i}]: unknown measure ${JSON.stringify(m)}`);
+        const d = blank(m, c);
+        d.reasons.push(`${m}: no limit theorem is implemented for it: reported as an estimate with its confidence interval, no prediction`);
+        return d;
+      }
     }
   });
 }
