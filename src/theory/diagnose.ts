@@ -325,7 +325,7 @@ function diagnoseArea(c: Context): Diagnosis {
     d.reasons.push("sigma^2 = 0: Var(A_n) = o(n^3)");
   } else {
     d.limitLaw = "normal";
-    d.reasons.push(`0 interior to P: only the endpoints matter to first order; (A_n - E A_n)/n^{3/2} -> N(0, ${fmt(sigma2)}) [derived, unchecked]`);
+    d.reasons.push(`0 interior to P: only the endpoints matter to first order; (A_n - E A_n)/n^{3/2} -> N(0, ${fmt(sigma2)}) [derived; variance limit checked by simulation, docs/theory.md sec. 14]`);
   }
   const nearBoundary = locate(poly, [0, 0], c.tol.nearTie);
   if (nearBoundary !== "interior") d.reasons.push("0 is near the boundary of P: slow-convergence risk");
