@@ -1,5 +1,6 @@
 // Commands only: parse arguments, call the library, print, choose the exit code.
-// Exit codes: 0 ok, 1 a check failed, 2 bad input or usage; a stopped run: 130 (SIGINT),
+// Exit codes: 0 ok (nothing failed, every user claim decided), 1 a check failed, 2 bad input or
+// usage, 3 nothing failed but a user claim is undecided; a stopped run: 130 (SIGINT),
 // 143 (SIGTERM), 75 (--stop-after-blocks), each after writing a checkpoint.
 
 import { parseArgs, type ParseArgsConfig } from "node:util";
@@ -29,6 +30,8 @@ import { planSuite, renderPlan, type PlanGoal } from "./plan/plan.js";
 
 export const EXIT_OK = 0;
 export const EXIT_CHECK_FAILED = 1;
+/** No failure, but some user claim is inconclusive (the summary names it and the paths that would decide). */
+export const EXIT_UNDECIDED = 3;
 export const EXIT_BAD_INPUT = 2;
 /** A run stopped by --stop-after-blocks (checkpoint written; continue with --resume). */
 export const EXIT_STOPPED = 75;
@@ -74,7 +77,9 @@ diff: exact bit comparison when seed, suite hash and version match; otherwise tw
 of every mean and variance, Holm over the family at --alpha (default 0.01); --statistical forces
 the z-tests. Exit 0 no significant change, 1 a significant change, 2 unreadable or mismatched files.
 
-Exit codes: 0 ok, 1 a check failed, 2 bad input or usage; a stopped run: 130 (SIGINT),
+Exit codes: 0 ok (nothing failed and every claim of the suite decided), 1 a check failed,
+2 bad input or usage, 3 nothing failed but a claim is undecided (the summary names it and the
+paths that would decide); a stopped run: 130 (SIGINT),
 143 (SIGTERM), 75 (--stop-after-blocks), each after writing a checkpoint.
 Suite format and examples: README.md; shipped suites: validation/.`;
 
@@ -175,8 +180,8 @@ function finish(sim: SimulationResult, opts: FinishOptions): number {
     ? predictCached(suite, { budgetSeconds: opts.predictBudget, meanTargets: runMeanTargets(sim) }, { use: opts.cache })
     : undefined;
   const verdicts = prediction ? evaluateChecks(sim, prediction) : undefined;
-  const report = buildReport(sim, opts.startedAt, { predictions: prediction, checks: verdicts?.checks, limits: verdicts?.limits });
-  report.exitCode = verdicts && verdicts.failed > 0 ? EXIT_CHECK_FAILED : EXIT_OK;
+  const report = buildReport(sim, opts.startedAt, { predictions: prediction, verdicts });
+  report.exitCode = verdicts && verdicts.failed > 0 ? EXIT_CHECK_FAILED : verdicts && (verdicts.undecidedClaims?.length ?? 0) > 0 ? EXIT_UNDECIDED : EXIT_OK;
   const scaling = (m: string) => prediction?.measures.find((p) => p.measure === m)?.varianceScaling ?? null;
   const paths = sim.blocks.reduce((s, b) => s + b.paths, 0);
   const lines = [

@@ -17,7 +17,7 @@ import { measureBlocks } from "../run/series.js";
 import { simulateInProcess } from "../run/simulate.js";
 import type { LoadedSuite, Measure } from "../suite/schema.js";
 import { predict } from "../theory/predict.js";
-import { extrapolate } from "../verdict/extrapolate.js";
+import { extrapolate, plainRatios } from "../verdict/extrapolate.js";
 
 /** Default power of the detection plan. */
 export const DEFAULT_POWER = 0.9;
@@ -187,11 +187,7 @@ export function planSuite(suite: LoadedSuite, opts: PlanOptions): SuitePlan {
     let inflation: number | null = null;
     let note: string;
     try {
-      const ex = extrapolate({
-        measure, quantity: "varianceLimit", scaling: p, n: suite.n,
-        blocks: series,
-        expectedRate: suite.expectedRate ?? 0.5,
-      });
+      const ex = extrapolate({ measure, quantity: "varianceLimit", scaling: p, n: suite.n, ...plainRatios("varianceLimit", p, suite.n, series), expectedRate: suite.expectedRate ?? 0.5 });
       const last = ex.limit.ratios[ex.limit.ratios.length - 1];
       if (ex.limit.method !== "none" && last.standardError > 0 && Number.isFinite(ex.limit.standardError)) {
         inflation = ex.limit.standardError / last.standardError;

@@ -30,6 +30,9 @@ export interface Provenance {
   wallSeconds: number;
 }
 
+import type { VerdictReport } from "../verdict/types.js";
+import type { PointEstimate } from "../verdict/estimates.js";
+
 export interface Report {
   format: string;
   suite: ReturnType<typeof suiteForReport>;
@@ -41,6 +44,13 @@ export interface Report {
   predictions?: Prediction;
   checks?: unknown[];
   limits?: unknown[];
+  /**
+   * Plain and control-variate estimates of E M_n and Var M_n per measure and n, with jackknife SEs
+   * and the variance-reduction factors (plain SE^2 / control-variate SE^2).
+   */
+  controlVariates?: PointEstimate[];
+  /** What decided the exit code: failures, user claims left undecided, Holm family sizes, tolerance. */
+  verdictSummary?: { failed: number; undecidedClaims: { id: string; pathsToDecide: number | null | undefined }[]; familySizes: { claims: number; predictions: number } | null; tolerance: number | null; alpha: number };
   /** Covariance between measures at each n (over the kept measures of the suite). */
   covariance: { n: number; measures: string[]; matrix: number[][] }[];
   /** Per-block moment sums, for jackknife re-analysis and exact combines of parts. */
@@ -108,7 +118,7 @@ export function measureCovariance(sim: SimulationResult): Report["covariance"] {
 export function buildReport(
   sim: SimulationResult,
   startedAt: Date,
-  extra: { predictions?: Prediction; checks?: unknown[]; limits?: unknown[]; shard?: Report["shard"] } = {},
+  extra: { predictions?: Prediction; verdicts?: VerdictReport; shard?: Report["shard"] } = {},
 ): Report {
   const prov = provenance(sim, startedAt);
   const paths = sim.blocks.reduce((s, b) => s + b.paths, 0);
@@ -121,8 +131,16 @@ export function buildReport(
     provenance: prov,
     results: sim.results,
     ...(extra.predictions ? { predictions: extra.predictions } : {}),
-    ...(extra.checks ? { checks: extra.checks } : {}),
-    ...(extra.limits ? { limits: extra.limits } : {}),
+    ...(extra.verdicts ? { checks: extra.verdicts.checks, limits: extra.verdicts.limits } : {}),
+    ...(extra.verdicts?.estimates ? { controlVariates: extra.verdicts.estimates } : {}),
+    ...(extra.verdicts
+      ? {
+          verdictSummary: {
+            failed: extra.verdicts.failed, undecidedClaims: extra.verdicts.undecidedClaims ?? [], familySizes: extra.verdicts.familySizes ?? null,
+            tolerance: extra.verdicts.tolerance ?? null, alpha: extra.verdicts.alpha,
+          },
+        }
+      : {}),
     covariance: measureCovariance(sim),
     blocks: sim.blocks,
     blockCount: sim.blockCount,

@@ -2,7 +2,8 @@
 // Pure functions of numbers: used in-process, in worker threads, and by combining parts alike.
 
 import { emptyCoMoments, emptyMoments, mergeCoMoments, mergeMoments, pushValue, pushVector } from "../stats/moments.js";
-import { recordLayout } from "../engine/types.js";
+import { CONTROLS_PER_WALK, recordLayout } from "../engine/types.js";
+import type { CoMomentState } from "../stats/types.js";
 import type { BlockStats, KeptSample } from "./types.js";
 
 /** At most this many per-path records are kept for distributional checks (2^17). */
@@ -26,6 +27,8 @@ export interface BlockOutput {
 /** Summarise the kernel output of one block (pathCount records laid out as recordLayout(gridLength)). */
 export function summarizeBlock(
   values: Float64Array,
+  controls: Float64Array,
+  walks: number,
   gridLength: number,
   seed: number,
   block: number,
@@ -50,7 +53,29 @@ export function summarizeBlock(
     pushVector(comoments, values, off);
   }
   const kept = selectKept(values, dim, seed, firstPath, pathCount, totalPaths, keep);
-  return { stats: { block, firstPath, paths: pathCount, moments, comoments }, kept, min, max };
+  const controlComoments = controlSums(values, controls, walks, gridLength, pathCount);
+  return { stats: { block, firstPath, paths: pathCount, moments, comoments, controlComoments }, kept, min, max };
+}
+
+/** Per grid point, co-moments of [the record's numbers at that point, controls] (BlockStats.controlComoments). */
+function controlSums(values: Float64Array, controls: Float64Array, walks: number, gridLength: number, pathCount: number): CoMomentState[] {
+  const c = walks * CONTROLS_PER_WALK;
+  const q = recordLayout(gridLength).perPoint;
+  const d = q + c;
+  if (controls.length !== pathCount * gridLength * c) throw new Error(`controls: length ${controls.length}, expected ${pathCount * gridLength * c}`);
+  const out = Array.from({ length: gridLength }, () => emptyCoMoments(d));
+  const row = new Float64Array(d);
+  const scratch = new Float64Array(d);
+  for (let p = 0; p < pathCount; p++) {
+    for (let g = 0; g < gridLength; g++) {
+      const vo = (p * gridLength + g) * q;
+      const co = (p * gridLength + g) * c;
+      for (let m = 0; m < q; m++) row[m] = values[vo + m];
+      for (let a = 0; a < c; a++) row[q + a] = controls[co + a];
+      pushVector(out[g], row, 0, scratch);
+    }
+  }
+  return out;
 }
 
 /** Blocks in block order: the fixed merge order makes results independent of workers. */
@@ -64,6 +89,14 @@ export function mergeBlockMoments(blocks: BlockStats[]): BlockStats["moments"] {
   let moments = sorted[0].moments;
   for (let i = 1; i < sorted.length; i++) moments = moments.map((m, j) => mergeMoments(m, sorted[i].moments[j]));
   return moments;
+}
+
+/** Per grid point, the control co-moments of all blocks merged in block order. */
+export function mergeBlockControlComoments(blocks: BlockStats[]): CoMomentState[] {
+  const sorted = inBlockOrder(blocks);
+  let acc = sorted[0].controlComoments;
+  for (let i = 1; i < sorted.length; i++) acc = acc.map((c, g) => mergeCoMoments(c, sorted[i].controlComoments[g]));
+  return acc;
 }
 
 /** Co-moment sums of all blocks, merged in block order. */

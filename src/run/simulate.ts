@@ -5,7 +5,7 @@ import { compileWalks } from "../engine/compile.js";
 import { createTwinKernel } from "../engine/twin.js";
 import { createWasmKernel, loadWasmModuleSync } from "../engine/wasm.js";
 import type { Kernel, KernelSetup } from "../engine/types.js";
-import { recordLayout } from "../engine/types.js";
+import { CONTROLS_PER_WALK, recordLayout } from "../engine/types.js";
 import { summarize } from "../stats/moments.js";
 import { blockCount, blockRange } from "../suite/load.js";
 import type { LoadedSuite, Suite } from "../suite/schema.js";
@@ -27,8 +27,10 @@ export function createKernel(suite: Suite, kind: KernelKind = "wasm", module?: W
 /** Simulate block b of the suite with the given kernel. */
 export function runOneBlock(kernel: Kernel, suite: Suite, b: number): BlockOutput {
   const { first, count } = blockRange(suite.paths, blockCount(suite), b);
-  const values = kernel.runBlock(b, count);
-  return summarizeBlock(values, suite.n.length, suite.seed, b, first, count, suite.paths);
+  const walks = suite.walks.length;
+  const controls = new Float64Array(count * suite.n.length * walks * CONTROLS_PER_WALK);
+  const values = kernel.runBlock(b, count, controls);
+  return summarizeBlock(values, controls, walks, suite.n.length, suite.seed, b, first, count, suite.paths);
 }
 
 /** Accumulates block outputs (in any arrival order) into a SimulationResult. */

@@ -11,7 +11,24 @@ export interface BlockStatsJson {
   firstPath: number;
   paths: number;
   moments: MomentState[];
-  comoments: { count: number; dim: number; mean: number[]; c: number[] };
+  comoments: CoMomentsJson;
+  controlComoments: CoMomentsJson[];
+}
+
+interface CoMomentsJson {
+  count: number;
+  dim: number;
+  mean: number[];
+  c: number[];
+}
+
+const coMomentsToJson = (s: CoMomentState): CoMomentsJson => ({ count: s.count, dim: s.dim, mean: Array.from(s.mean), c: Array.from(s.c) });
+
+function coMomentsFromJson(c: CoMomentsJson | undefined, what: string): CoMomentState {
+  if (!c || !Number.isInteger(c.count) || !Number.isInteger(c.dim) || !Array.isArray(c.mean) || !Array.isArray(c.c) || c.c.length !== c.dim * c.dim || c.mean.length !== c.dim) {
+    throw new Error(`malformed ${what}`);
+  }
+  return { count: c.count, dim: c.dim, mean: Float64Array.from(c.mean), c: Float64Array.from(c.c) };
 }
 
 export interface KeptJson {
@@ -27,7 +44,8 @@ export function blockToJson(b: BlockStats): BlockStatsJson {
     firstPath: b.firstPath,
     paths: b.paths,
     moments: b.moments.map((m) => ({ count: m.count, mean: m.mean, m2: m.m2, m3: m.m3, m4: m.m4 })),
-    comoments: { count: b.comoments.count, dim: b.comoments.dim, mean: Array.from(b.comoments.mean), c: Array.from(b.comoments.c) },
+    comoments: coMomentsToJson(b.comoments),
+    controlComoments: b.controlComoments.map(coMomentsToJson),
   };
 }
 
@@ -44,12 +62,16 @@ export function blockFromJson(j: BlockStatsJson, where: string): BlockStats {
     }
     return { count: m.count, mean: m.mean, m2: m.m2, m3: m.m3, m4: m.m4 };
   });
-  const c = j.comoments;
-  if (!c || !Array.isArray(c.mean) || !Array.isArray(c.c) || c.c.length !== c.dim * c.dim || c.mean.length !== c.dim) {
-    throw bad(`block ${j.block}: malformed co-moments`);
+  let comoments: CoMomentState;
+  let controlComoments: CoMomentState[];
+  try {
+    comoments = coMomentsFromJson(j.comoments, "co-moments");
+    if (!Array.isArray(j.controlComoments)) throw new Error("lacks its control co-moments");
+    controlComoments = j.controlComoments.map((c) => coMomentsFromJson(c, "control co-moments"));
+  } catch (e) {
+    throw bad(`block ${j.block}: ${(e as Error).message}`);
   }
-  const comoments: CoMomentState = { count: c.count, dim: c.dim, mean: Float64Array.from(c.mean), c: Float64Array.from(c.c) };
-  return { block: j.block, firstPath: j.firstPath, paths: j.paths, moments, comoments };
+  return { block: j.block, firstPath: j.firstPath, paths: j.paths, moments, comoments, controlComoments };
 }
 
 function f64ToB64(a: ArrayLike<number>): string {
@@ -111,6 +133,7 @@ export function runStateFromJson(j: RunStateJson, dim: number, where: string): R
   const blocks = j.blocks.map((b) => blockFromJson(b, where));
   for (const b of blocks) {
     if (b.moments.length !== dim) throw new Error(`block ${b.block} has ${b.moments.length} moment records, expected ${dim}`);
+    if (!b.controlComoments.every((c) => c.dim === b.controlComoments[0].dim)) throw new Error(`block ${b.block} has control co-moment records of different sizes`);
   }
   return {
     blocks,

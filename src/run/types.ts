@@ -13,6 +13,12 @@ export interface BlockStats {
   moments: MomentState[];
   /** Co-moments of the kernel record, dim = recordLayout(grid.length).width. */
   comoments: CoMomentState;
+  /**
+   * Per grid point g: co-moments of [the 4 kernel measures, then the control values of every walk
+   * (Xx, Xy, Yx, Yy per walk, engine/types.ts CONTROLS_PER_WALK)], dim = 4 + 4k. The sums the
+   * control-variate regression of each measure on the controls needs (src/stats/control-variates.ts).
+   */
+  controlComoments: CoMomentState[];
 }
 
 /** One row of the JSON report's `results` array (contract: keep these names). */

@@ -52,7 +52,6 @@ export function blockJackknife(
     if (!(c > 0)) throw new Error(`blocks[${j}]: empty block`);
     return c;
   });
-  const total = sizes.reduce((a, b) => a + b, 0);
   const mergeExcept = (skip: number): MomentState[] => {
     const out: MomentState[] = [];
     for (let s = 0; s < series; s++) {
@@ -70,6 +69,22 @@ export function blockJackknife(
     if (t.length !== d) throw new Error(`statistic: returned length ${t.length}, expected ${d}`);
     leaveOut.push(t);
   }
+  const { biasCorrected, covariance } = jackknifeFromReplicates(full, leaveOut, sizes);
+  return { estimate: full, biasCorrected, covariance, blocks: g, leaveOut, sizes };
+}
+
+/**
+ * The jackknife above from the full statistic, its delete-one-block values and the block sizes
+ * (for statistics whose replicates are computed another way, e.g. control variates).
+ */
+export function jackknifeFromReplicates(
+  full: ArrayLike<number>,
+  leaveOut: readonly ArrayLike<number>[],
+  sizes: readonly number[],
+): { biasCorrected: Float64Array; covariance: Float64Array } {
+  const g = leaveOut.length;
+  const d = full.length;
+  const total = sizes.reduce((a, b) => a + b, 0);
   const biasCorrected = new Float64Array(d);
   for (let a = 0; a < d; a++) {
     let s = g * full[a];
@@ -84,7 +99,7 @@ export function blockJackknife(
     const w = 1 / (g * (h - 1));
     for (let a = 0; a < d; a++) for (let b = 0; b < d; b++) covariance[a * d + b] += w * dev[a] * dev[b];
   }
-  return { estimate: full, biasCorrected, covariance, blocks: g, leaveOut, sizes };
+  return { biasCorrected, covariance };
 }
 
 /**

@@ -101,11 +101,12 @@ export function emptyCoMoments(dim: number): CoMomentState {
 }
 
 /** Adds the vector x[offset .. offset+dim) in place (Pebay 2008, one-pass co-moment update). */
-export function pushVector(s: CoMomentState, x: ArrayLike<number>, offset: number): void {
+export function pushVector(s: CoMomentState, x: ArrayLike<number>, offset: number, scratch?: Float64Array): void {
   const d = s.dim;
   const n = s.count + 1;
   const f = (n - 1) / n;
-  const delta = new Float64Array(d);
+  // `scratch` (length >= dim) spares an allocation per vector in hot loops.
+  const delta = scratch ?? new Float64Array(d);
   for (let a = 0; a < d; a++) delta[a] = x[offset + a] - s.mean[a];
   for (let a = 0; a < d; a++) {
     const fa = f * delta[a];

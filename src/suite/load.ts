@@ -42,7 +42,7 @@ const MAX_ATOMS = 1 << 20;
 
 const TOP_KEYS = new Set([
   "title", "seed", "walks", "measure", "n", "paths", "claims", "alpha", "expectedRate",
-  "normalityTolerance", "blocks", "description", "$schema",
+  "normalityTolerance", "tolerance", "blocks", "description", "$schema",
 ]);
 const LAW_KEYS: Record<string, string[]> = {
   gaussian: ["law", "mean", "cov"],
@@ -52,7 +52,7 @@ const LAW_KEYS: Record<string, string[]> = {
   empirical: ["law", "file"],
 };
 const CLAIM_KEYS = new Set([
-  "measure", "varianceLimit", "meanGrowth", "limitLaw", "n", "mean", "varianceScaling", "meanScaling", "label",
+  "measure", "varianceLimit", "meanGrowth", "limitLaw", "n", "mean", "varianceScaling", "meanScaling", "label", "tolerance",
 ]);
 
 export interface SuiteOverrides {
@@ -137,6 +137,7 @@ export function validateSuite(raw: unknown, opts: ValidateOptions = {}): LoadedS
   if (o.description !== undefined) suite.description = asString(o.description, "description");
   if (o.alpha !== undefined) suite.alpha = asNumber(o.alpha, "alpha", { gt: 0, le: 0.5 });
   if (o.expectedRate !== undefined) suite.expectedRate = asNumber(o.expectedRate, "expectedRate", { ge: 0.1, le: 2 });
+  if (o.tolerance !== undefined) suite.tolerance = asNumber(o.tolerance, "tolerance", { gt: 0, lt: 1 });
   if (o.normalityTolerance !== undefined) {
     suite.normalityTolerance = asNumber(o.normalityTolerance, "normalityTolerance", { gt: 0, lt: 1 });
   }
@@ -251,6 +252,7 @@ function validateClaim(raw: unknown, at: string, suite: Suite): Claim {
   if (o.varianceScaling !== undefined) c.varianceScaling = asNumber(o.varianceScaling, `${at}.varianceScaling`, { ge: 0, le: 4 });
   if (o.meanScaling !== undefined) c.meanScaling = asNumber(o.meanScaling, `${at}.meanScaling`, { ge: 0, le: 4 });
   if (o.label !== undefined) c.label = asString(o.label, `${at}.label`);
+  if (o.tolerance !== undefined) c.tolerance = asNumber(o.tolerance, `${at}.tolerance`, { gt: 0, lt: 1 });
   if (o.limitLaw !== undefined) {
     if (o.limitLaw !== "normal" && o.limitLaw !== "non-normal") {
       throw new SuiteError(`${at}.limitLaw`, `must be "normal" or "non-normal" (got ${JSON.stringify(o.limitLaw)})`);

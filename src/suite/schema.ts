@@ -58,6 +58,8 @@ export interface Claim {
   meanScaling?: number;
   /** Optional free-text label shown in reports. */
   label?: string;
+  /** Relative precision a pass of this claim's constants must reach (default: the suite's `tolerance`). */
+  tolerance?: number;
 }
 
 export interface Suite {
@@ -73,6 +75,11 @@ export interface Suite {
   alpha?: number;
   /** Assumed convergence rate beta of Var/n^p when the grid cannot identify it (default 0.5). */
   expectedRate?: number;
+  /**
+   * Relative precision of a pass (default 0.01): a constant passes only when its whole interval
+   * lies within value x (1 +- tolerance).
+   */
+  tolerance?: number;
   /** Upper bound on the KS distance to the normal law accepted as "normal" (default 0.01). */
   normalityTolerance?: number;
   /** Number of blocks the paths are split into (default 64, at least 32). */

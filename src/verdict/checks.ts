@@ -1,35 +1,44 @@
 // The verdict stage: simulated moments + predictions + user claims -> calibrated checks.
 //
 // Every user claim and every built-in prediction whose constant is a `theorem` or `derived` is
-// checked; `estimate` constants are shown, never gated. Gated checks form one family, controlled
-// by Holm's step-down procedure at suite.alpha (default 0.01): a gated check fails only when Holm
-// rejects it. Checks that cannot produce a calibrated p-value (unknown finite-n bias, model misfit,
-// uncalibrated variances, too small a kept sample) are reported `inconclusive` and not gated.
+// checked; `estimate` constants are shown, never gated. Gated checks of constants form two
+// families, each controlled by Holm's step-down procedure at suite.alpha (default 0.01): the
+// user's claims, and the built-in predictions (so padding one family never rescues the other).
+// A constant (a limit or a finite-n mean) FAILS when Holm rejects its value; it PASSES only when
+// its whole (1 - alpha) interval (statistical + systematic) lies within value x (1 +- tolerance)
+// (src/verdict/decide.ts); otherwise it is INCONCLUSIVE, with the paths that would decide or the
+// reason no number of paths can. Limit laws read one evidence state per measure
+// (src/verdict/normality.ts lawDecision) at level alpha, outside the Holm families, so that a claim
+// and a prediction about the same law never disagree.
+// Estimates use control variates where they lower the jackknife SE (src/verdict/estimates.ts).
 // Methods: src/verdict/extrapolate.ts (limits), src/verdict/normality.ts (laws), src/stats/*.
 
 import { LILLIEFORS_P_FLOOR } from "../stats/lilliefors.js";
 import { holm } from "../stats/holm.js";
-import { mergeAll, summarize } from "../stats/moments.js";
 import { normalQuantile, twoSidedNormalP } from "../stats/normal.js";
 import type { MomentState } from "../stats/types.js";
 import type { SimulationResult } from "../run/types.js";
 import { measureBlocks, measureSample, seriesWidth } from "../run/series.js";
 import type { MeasurePrediction, Prediction } from "../theory/types.js";
 import type { Measure } from "../suite/schema.js";
-import { extrapolate, LEVEL, type Extrapolation } from "./extrapolate.js";
-import { normalityEvidence, type NormalityEvidence } from "./normality.js";
+import { extrapolate, LEVEL, plainRatios, type Extrapolation } from "./extrapolate.js";
+import { lawDecision, normalityEvidence, type LawDecision, type NormalityEvidence } from "./normality.js";
+import { estimateMeasures, scaledSeries, type MeasureEstimates, type PointEstimate } from "./estimates.js";
+import { insideBand, pathsToDecide, toleranceBand } from "./decide.js";
 import type { Check, CheckKind, LimitEstimate, Verdict, VerdictReport } from "./types.js";
 
 export type { Check, CheckKind, LimitEstimate, Verdict, VerdictReport } from "./types.js";
 export { renderChecks } from "./render.js";
 
-/** phi(0) = 1/sqrt(2 pi): the first Edgeworth term moves the CDF by at most |skewness| phi(0) / 6. */
-const PHI0 = 1 / Math.sqrt(2 * Math.PI);
+type Family = "claims" | "predictions";
 
 interface Pending {
   check: Check;
   /** Verdict when Holm does not reject (pass or inconclusive). */
   otherwise: Verdict;
+  family: Family;
+  /** For constants: the value, tolerance, decision interval and what decides it (set when gated). */
+  constant?: { value: number; tolerance: number; interval: [number, number]; seStat: number; seSyst: number; paths: number; estimate: number };
 }
 
 const fmt = (x: number | null | undefined, digits = 6): string =>
@@ -44,6 +53,8 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
   const suite = sim.suite;
   const alpha = suite.alpha ?? 0.01;
   const tol = suite.normalityTolerance ?? 0.01;
+  const tolerance = suite.tolerance ?? 0.01;
+  if (!(tolerance > 0 && tolerance < 1)) throw new Error(`tolerance: must be in (0, 1), got ${tolerance}`);
   const expectedRate = suite.expectedRate ?? 0.5;
   if (!(alpha > 0 && alpha < 1)) throw new Error(`alpha: must be in (0, 1), got ${alpha}`);
   if (!(tol > 0 && tol < 1)) throw new Error(`normalityTolerance: must be in (0, 1), got ${tol}`);
@@ -59,6 +70,8 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
 
   const blocksFor = (measure: Measure): MomentState[][] => measureBlocks(sim, measure);
   const predFor = (measure: Measure) => prediction.measures.find((m) => m.measure === measure);
+  const estimates = estimateMeasures(sim);
+  const totalPaths = sim.blocks.reduce((a, b) => a + b.paths, 0);
 
   const extrapolations = new Map<string, Extrapolation>();
   const limitsOrder: string[] = [];
@@ -66,7 +79,11 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
     const key = `${measure}|${quantity}|${scaling}`;
     let ex = extrapolations.get(key);
     if (!ex) {
-      ex = extrapolate({ measure, quantity, scaling, n: grid, blocks: blocksFor(measure), expectedRate });
+      const est = estimates.get(measure);
+      const series = est
+        ? { ...scaledSeries(est, quantity === "varianceLimit" ? "variance" : "mean", scaling, grid), blocks: sim.blocks.length }
+        : plainRatios(quantity, scaling, grid, blocksFor(measure));
+      ex = extrapolate({ measure, quantity, scaling, n: grid, y: series.y, cov: series.cov, blocks: series.blocks, expectedRate });
       extrapolations.set(key, ex);
       limitsOrder.push(key);
     }
@@ -74,39 +91,47 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
   };
 
   const pending: Pending[] = [];
-  const add = (check: Omit<Check, "adjustedPValue">, otherwise: Verdict) => pending.push({ check: { ...check, adjustedPValue: null }, otherwise });
+  const add = (check: Omit<Check, "adjustedPValue" | "family" | "tolerance" | "decisionInterval" | "pathsToDecide">, otherwise: Verdict, family: Family, constant?: Pending["constant"]) =>
+    pending.push({ check: { ...check, adjustedPValue: null, family: check.gated ? family : null, tolerance: constant?.tolerance ?? null, decisionInterval: constant?.interval ?? null, pathsToDecide: null }, otherwise, family, constant });
+  const zPass = normalQuantile(1 - alpha / 2);
 
   // --- finite-n means -------------------------------------------------------------------------
-  const meanCheck = (measure: Measure, g: number, expected: number, err: number, id: string, source: string, target?: number) => {
-    const s = summarize(mergeAll(blocksFor(measure).map((b) => b[g])));
-    const z = (s.mean - expected) / Math.sqrt(s.meanSE * s.meanSE + err * err);
+  const meanCheck = (measure: Measure, g: number, expected: number, err: number, id: string, source: string, family: Family, tol: number, target?: number) => {
+    const pt = estimates.get(measure)?.points[g];
+    const plain = blocksFor(measure).map((b) => b[g]);
+    const mean = pt ? pt.mean : plain.reduce((a, b) => a + b.mean * b.count, 0) / plain.reduce((a, b) => a + b.count, 0);
+    const se = pt ? pt.meanSE : NaN;
+    const total = Math.sqrt(se * se + err * err);
+    const z = (mean - expected) / total;
     const zc = normalQuantile(1 - (1 - LEVEL) / 2);
+    const how = pt && pt.meanUsesControls ? `control-variate mean (SE ${fmt(pt.meanSE, 4)}, plain ${fmt(pt.meanPlainSE, 4)}: variance reduction ${fmt(pt.meanReduction, 3)}x)` : "plain mean";
     if (target !== undefined && !(err <= target)) {
       // The prediction did not reach the accuracy its check needs (its target): shown, not gated.
       add(
         {
-          id, measure, n: grid[g], kind: "mean", source, estimate: s.mean, expected, statistic: z, pValue: null,
-          ci: [s.mean - zc * s.meanSE, s.mean + zc * s.meanSE], verdict: "inconclusive", gated: false,
-          detail: `Not gated: the predicted mean's numerical error bound ${fmt(err, 3)} did not reach its target ${fmt(target, 3)} (1/10 of the SE it is checked against); z = ${fmt(z, 3)} shown with SE = ${fmt(s.meanSE, 4)} over ${s.count} paths.`,
+          id, measure, n: grid[g], kind: "mean", source, estimate: mean, expected, statistic: z, pValue: null,
+          ci: [mean - zc * se, mean + zc * se], verdict: "inconclusive", gated: false,
+          detail: `Not gated: the predicted mean's numerical error bound ${fmt(err, 3)} did not reach its target ${fmt(target, 3)} (1/10 of the SE it is checked against); z = ${fmt(z, 3)} shown with the ${how}, SE = ${fmt(se, 4)}.`,
         },
-        "inconclusive",
+        "inconclusive", family,
       );
       return;
     }
     add(
       {
-        id, measure, n: grid[g], kind: "mean", source, estimate: s.mean, expected, statistic: z, pValue: twoSidedNormalP(z),
-        ci: [s.mean - zc * s.meanSE, s.mean + zc * s.meanSE], verdict: "pass", gated: true,
-        detail: `z = (mean - expected)/sqrt(SE^2 + err^2) with SE = ${fmt(s.meanSE, 4)} over ${s.count} paths and numerical error bound err = ${fmt(err, 3)}; ${LEVEL * 100}% CI of the mean.`,
+        id, measure, n: grid[g], kind: "mean", source, estimate: mean, expected, statistic: z, pValue: twoSidedNormalP(z),
+        ci: [mean - zc * se, mean + zc * se], verdict: "pass", gated: Number.isFinite(z),
+        detail: `z = (mean - expected)/sqrt(SE^2 + err^2) with the ${how}, jackknife SE over ${sim.blocks.length} blocks, ${totalPaths} paths, numerical error bound err = ${fmt(err, 3)}; ${LEVEL * 100}% CI of the mean.`,
       },
-      "pass",
+      "pass", family,
+      { value: expected, tolerance: tol, interval: [mean - zPass * total, mean + zPass * total], seStat: se, seSyst: err, paths: totalPaths, estimate: mean },
     );
   };
 
   // --- limits (variance, mean growth) ----------------------------------------------------------
   const limitCheck = (
     measure: Measure, quantity: "varianceLimit" | "meanGrowth", scaling: number, value: number, id: string, source: string,
-    constantKind: string | null, uncalibrated: boolean,
+    constantKind: string | null, uncalibrated: boolean, family: Family, tol: number,
   ) => {
     const ex = getExtrapolation(measure, quantity, scaling);
     const L = ex.limit;
@@ -125,33 +150,39 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
         : L.systematic === null || L.systematic === undefined
           ? "the systematic (model) uncertainty of the extrapolation is not estimable on this grid (too few points to refit it another way)"
           : "the rate model has no degree of freedom left to test its fit";
-    else if (L.misfitPValue !== null && L.misfitPValue < alpha)
-      why = `the extrapolation model misfits the grid (chi-square p = ${fmtP(L.misfitPValue)} < ${alpha}): the limit is not trusted`;
+    else if (ex.undecidable !== null) why = ex.undecidable;
+    else if (!Number.isFinite(t.pValue)) why = "the test statistic is not finite";
     if (why !== null) {
-      add({ ...base, pValue: null, verdict: "inconclusive", gated: false, detail: `Not gated: ${why}. ${method}` }, "inconclusive");
+      add({ ...base, pValue: null, verdict: "inconclusive", gated: false, detail: `Not gated: ${why}. ${method}` }, "inconclusive", family);
       return;
     }
-    const rateDependent = L.method === "fixed" && t.minPValue <= alpha;
+    const interval = ex.interval(1 - alpha);
+    // se_stat on the side facing the value (the profile interval may be asymmetric).
+    const st = L.statisticalCi ?? L.ci ?? [L.estimate, L.estimate];
+    const zL = normalQuantile(1 - (1 - LEVEL) / 2);
+    const seStat = (value < L.estimate ? L.estimate - st[0] : st[1] - L.estimate) / zL;
     add(
       {
         ...base, pValue: t.pValue, verdict: "pass", gated: true,
         detail:
           `z = (estimate - expected)/sqrt(se_stat^2 + se_syst^2) = ${fmt(t.statistic, 3)}, se_stat from the side of the statistical interval facing the value, se_syst = ${fmt(L.systematic ?? NaN, 3)} (model uncertainty). ` +
-          (L.method === "fixed" ? "z test under each assumed rate; the gated p-value is the least significant one. " : "") +
-          method + (rateDependent ? " The value is rejected under some assumed rates and not others: inconclusive unless rejected under all." : ""),
+          (L.method === "fixed" ? "z test under each assumed rate; the gated p-value is the least significant one and the decision interval is the union over the rates. " : "") +
+          method,
       },
-      rateDependent ? "inconclusive" : "pass",
+      "pass", family,
+      { value, tolerance: tol, interval, seStat, seSyst: L.systematic ?? 0, paths: totalPaths, estimate: L.estimate },
     );
   };
 
   // --- limit laws ------------------------------------------------------------------------------
-  const evidenceCache = new Map<Measure, NormalityEvidence | string>();
-  const evidenceFor = (measure: Measure): NormalityEvidence | string => {
+  const evidenceCache = new Map<Measure, { ev: NormalityEvidence; decision: LawDecision } | string>();
+  const evidenceFor = (measure: Measure): { ev: NormalityEvidence; decision: LawDecision } | string => {
     let ev = evidenceCache.get(measure);
     if (ev === undefined) {
       const samples = measureSample(sim, measure);
       try {
-        ev = normalityEvidence(grid, samples, blocksFor(measure), tol, alpha);
+        const e = normalityEvidence(grid, samples, blocksFor(measure), tol, alpha, measure === "vertices");
+        ev = { ev: e, decision: lawDecision(e, grid, tol, alpha) };
       } catch (e) {
         ev = `the kept sample at n = ${grid[G - 1]} is unusable (${(e as Error).message})`;
       }
@@ -165,67 +196,40 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
       `KS distance to the normal family at n = ${ev.n} (m = ${d.size} kept paths, ${d.metric === "midpoints" ? `continuity-corrected: ${(100 * d.tiedFraction).toFixed(0)}% tied values` : "exact"}): ` +
       `${fmt(d.minimum, 3)}, ${(100 * (1 - alpha)).toFixed(0)}% DKW upper bound ${fmt(d.upperBound, 3)} vs tolerance ${tol}; ` +
       `Lilliefors D = ${fmt(ev.lillieforsD, 3)} (p ${ev.lillieforsP >= LILLIEFORS_P_FLOOR ? `>= ${LILLIEFORS_P_FLOOR}` : `= ${fmtP(ev.lillieforsP)}`}), Anderson-Darling A* = ${fmt(ev.anderson.modified, 3)} (p = ${Number.isNaN(ev.anderson.pValue) ? "-" : fmtP(ev.anderson.pValue)})${d.tiedFraction > 0 ? " (ties: p-values too small)" : ""}; ` +
-      `skewness ${fmt(ev.skewness, 3)} (z = ${fmt(ev.skewnessZ, 3)}), excess-kurtosis z = ${fmt(ev.kurtosisZ, 3)}; ` +
+      `skewness ${fmt(ev.skewness, 3)} (jackknife SE ${fmt(ev.skewnessJackknifeSE, 2)}), excess kurtosis ${fmt(ev.excessKurtosis, 3)} (SE ${fmt(ev.kurtosisJackknifeSE, 2)}); ` +
       (ev.skewGrowth ? `growth of |skewness| from n = ${grid[0]}: z = ${fmt(ev.skewGrowth.z, 3)}; ` : "skewness trend not assessable with one n; ") +
       (ev.skewPersistence ? `|skewness| above the n^-1/2 decay of a normal limit: z = ${fmt(ev.skewPersistence.z, 3)}; ` : "") +
+      (ev.kurtosisPersistence ? `|excess kurtosis| above the n^-1 decay: z = ${fmt(ev.kurtosisPersistence.z, 3)}; ` : "") +
       `${ev.ksTrend}.`
     );
   };
-  /** Whether growing skewness is both significant and large enough to matter at the tolerance. */
-  const materialSkew = (ev: NormalityEvidence) => Math.abs(ev.skewness) * PHI0 / 6 > tol;
-  const lawCheck = (measure: Measure, law: string, id: string, source: string, predictionReasons: string[]) => {
-    const ev = evidenceFor(measure);
+  const lawCheck = (measure: Measure, law: string, id: string, source: string, predictionReasons: string[], family: Family) => {
+    const got = evidenceFor(measure);
     const base = { id, measure, n: grid[G - 1], kind: "limitLaw" as CheckKind, source, expected: law };
-    if (typeof ev === "string") {
-      add({ ...base, estimate: null, statistic: null, pValue: null, ci: null, verdict: "inconclusive", gated: false, detail: `Not gated: ${ev}.` }, "inconclusive");
+    if (typeof got === "string") {
+      add({ ...base, estimate: null, statistic: null, pValue: null, ci: null, verdict: "inconclusive", gated: false, detail: `Not decided: ${got}.` }, "inconclusive", family);
       return;
     }
+    const { ev, decision } = got;
     const d = ev.distance;
-    const ci: [number, number] = [Math.max(0, d.minimum - d.margin), d.upperBound];
-    const pSkew = ev.skewGrowth && materialSkew(ev) ? ev.skewGrowth.pValue : 1;
-    const skewGrows = pSkew <= alpha;
-    const numbers = { estimate: d.minimum, statistic: d.minimum, ci };
-    if (law === "normal") {
-      const p = Math.min(1, 2 * Math.min(d.pValue, pSkew));
-      let otherwise: Verdict = "pass";
-      let why = "";
-      if (d.upperBound >= tol) {
-        otherwise = "inconclusive";
-        why = d.toleranceReachable
-          ? ` The upper bound does not reach below the tolerance yet.`
-          : ` The kept sample (m = ${d.size}) is too small for the tolerance ${tol} to be reachable (DKW margin ${fmt(d.margin, 3)} + resolution ${fmt(d.resolutionFloor, 3)}): keep more paths.`;
-      } else if (skewGrows) {
-        otherwise = "inconclusive";
-        why = " |skewness| grows with n.";
-      }
-      add(
-        {
-          ...base, ...numbers, pValue: p, verdict: otherwise, gated: true,
-          detail: `Passes when the DKW bound < tolerance and |skewness| does not grow materially (|g1| phi(0)/6 > tolerance) and significantly; fails only on Holm rejection of "distance <= tolerance" (DKW p = ${fmtP(d.pValue)}) or of "no skewness growth". ${evidenceText(ev)}${why}`,
-        },
-        otherwise,
-      );
-    } else if (law === "non-normal") {
-      const persists = ev.skewPersistence !== null && ev.skewPersistence.pValue <= alpha;
-      const visible = d.pValue <= alpha || skewGrows || persists;
-      // Only read skewPersistence when it decided the verdict: it is null with one n on the grid.
-      const how = d.pValue <= alpha || skewGrows || !persists
-        ? "normality is rejected at the effect-size level (distance above tolerance, or growing skewness)"
-        : `|skewness| does not decay at the n^-1/2 rate of a normal limit (first Edgeworth term, common practice): one-sided z = ${fmt(ev.skewPersistence!.z, 3)} against |g1(n_min)| sqrt(n_min/n_max), p <= ${alpha}; the finite-n distance is still below the tolerance`;
-      add(
-        {
-          ...base, ...numbers, pValue: null, verdict: visible ? "confirmed" : "not-yet-visible", gated: false,
-          detail: `Never a failure: ${visible ? how : "the departure from normality is not (yet) visible at this n and sample size"}. ${evidenceText(ev)}`,
-        },
-        visible ? "confirmed" : "not-yet-visible",
-      );
+    const numbers = { estimate: d.minimum, statistic: d.minimum, ci: [Math.max(0, d.minimum - d.margin), d.upperBound] as [number, number] };
+    const rule = `One evidence state per measure at level alpha = ${alpha} (not in a Holm family; claims and predictions read the same state): ${decision.why}.`;
+    if (law === "normal" || law === "non-normal") {
+      // normal: pass when normal convergence is shown, fail when non-normality is confirmed;
+      // non-normal: pass ("confirmed" for a prediction) when confirmed, fail only when normal
+      // convergence is shown strictly (distance below resolution at every n as well).
+      let verdict: Verdict = "inconclusive";
+      if (law === "normal") verdict = decision.state === "normal" ? "pass" : decision.state === "non-normal" ? "fail" : "inconclusive";
+      else if (decision.state === "non-normal") verdict = family === "predictions" ? "confirmed" : "pass";
+      else if (decision.state === "normal" && decision.strict) verdict = "fail";
+      add({ ...base, ...numbers, pValue: null, verdict, gated: false, detail: `${rule} ${evidenceText(ev)}` }, verdict, family);
     } else {
       add(
         {
           ...base, ...numbers, pValue: null, verdict: "inconclusive", gated: false,
-          detail: `Limit law ${law}${predictionReasons.length ? ` (${predictionReasons.join("; ")})` : ""}: evidence shown, not gated. ${evidenceText(ev)}`,
+          detail: `Limit law ${law}${predictionReasons.length ? ` (${predictionReasons.join("; ")})` : ""}: evidence shown, not decided. ${decision.why}. ${evidenceText(ev)}`,
         },
-        "inconclusive",
+        "inconclusive", family,
       );
     }
   };
@@ -238,13 +242,13 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
     for (let g = 0; g < G; g++) {
       const key = String(grid[g]);
       const exact = pred.exactMeans[key];
-      if (exact !== undefined && Number.isFinite(exact)) meanCheck(measure, g, exact, pred.exactMeansError[key] ?? 0, `${measure}.mean.n${grid[g]}.prediction`, src, pred.exactMeansTarget?.[key]);
+      if (exact !== undefined && Number.isFinite(exact)) meanCheck(measure, g, exact, pred.exactMeansError[key] ?? 0, `${measure}.mean.n${grid[g]}.prediction`, src, "predictions", tolerance, pred.exactMeansTarget?.[key]);
     }
     if (pred.varianceLimit !== null)
-      limitCheck(measure, "varianceLimit", pred.varianceScaling, pred.varianceLimit, `${measure}.varianceLimit.prediction`, src, pred.varianceLimitKind, pred.varianceUncalibrated === true);
+      limitCheck(measure, "varianceLimit", pred.varianceScaling, pred.varianceLimit, `${measure}.varianceLimit.prediction`, src, pred.varianceLimitKind, pred.varianceUncalibrated === true, "predictions", tolerance);
     if (pred.meanGrowth !== null)
-      limitCheck(measure, "meanGrowth", pred.meanScaling, pred.meanGrowth, `${measure}.meanGrowth.prediction`, src, pred.meanGrowthKind, false);
-    if (pred.limitLaw !== "degenerate") lawCheck(measure, pred.limitLaw, `${measure}.limitLaw.prediction`, src, pred.reasons);
+      limitCheck(measure, "meanGrowth", pred.meanScaling, pred.meanGrowth, `${measure}.meanGrowth.prediction`, src, pred.meanGrowthKind, false, "predictions", tolerance);
+    if (pred.limitLaw !== "degenerate") lawCheck(measure, pred.limitLaw, `${measure}.limitLaw.prediction`, src, pred.reasons, "predictions");
   }
 
   // --- user claims ----------------------------------------------------------------------------
@@ -254,21 +258,23 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
     const pred = predFor(claim.measure);
     const src = `claim${claim.label ? `: ${claim.label}` : ""}`;
     const uncalibrated = pred?.varianceUncalibrated === true;
+    const claimTol = claim.tolerance ?? tolerance;
+    if (!(claimTol > 0 && claimTol < 1)) throw new Error(`${field}.tolerance: must be in (0, 1), got ${claimTol}`);
     if ((claim.n === undefined) !== (claim.mean === undefined)) throw new Error(`${field}.${claim.n === undefined ? "n" : "mean"}: a finite-n mean claim needs both n and mean`);
     if (claim.n !== undefined && claim.mean !== undefined) {
       const g = grid.indexOf(claim.n);
       if (g < 0) throw new Error(`${field}.n: ${claim.n} is not on the suite's grid [${grid.join(", ")}]`);
-      meanCheck(claim.measure, g, claim.mean, 0, `${claim.measure}.mean.n${claim.n}.${field}`, src);
+      meanCheck(claim.measure, g, claim.mean, 0, `${claim.measure}.mean.n${claim.n}.${field}`, src, "claims", claimTol);
     }
     if (claim.varianceLimit !== undefined) {
       const p = claim.varianceScaling ?? pred?.varianceScaling ?? 1;
-      limitCheck(claim.measure, "varianceLimit", p, claim.varianceLimit, `${claim.measure}.varianceLimit.${field}`, src, "claim", uncalibrated);
+      limitCheck(claim.measure, "varianceLimit", p, claim.varianceLimit, `${claim.measure}.varianceLimit.${field}`, src, "claim", uncalibrated, "claims", claimTol);
     }
     if (claim.meanGrowth !== undefined) {
       // q = claim.meanScaling, else the prediction's meanScaling (as for varianceScaling), else 1.
-      limitCheck(claim.measure, "meanGrowth", claim.meanScaling ?? pred?.meanScaling ?? 1, claim.meanGrowth, `${claim.measure}.meanGrowth.${field}`, src, "claim", false);
+      limitCheck(claim.measure, "meanGrowth", claim.meanScaling ?? pred?.meanScaling ?? 1, claim.meanGrowth, `${claim.measure}.meanGrowth.${field}`, src, "claim", false, "claims", claimTol);
     }
-    if (claim.limitLaw !== undefined) lawCheck(claim.measure, claim.limitLaw, `${claim.measure}.limitLaw.${field}`, src, []);
+    if (claim.limitLaw !== undefined) lawCheck(claim.measure, claim.limitLaw, `${claim.measure}.limitLaw.${field}`, src, [], "claims");
   });
 
   // --- limits shown whatever was claimed -------------------------------------------------------
@@ -282,13 +288,50 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
   }
   const limits: LimitEstimate[] = limitsOrder.map((k) => extrapolations.get(k)!.limit);
 
-  // --- Holm over the gated family --------------------------------------------------------------
-  const gatedIdx = pending.map((p, i) => (p.check.gated && p.check.pValue !== null && !Number.isNaN(p.check.pValue) ? i : -1)).filter((i) => i >= 0);
-  const h = holm(gatedIdx.map((i) => pending[i].check.pValue!), alpha);
-  gatedIdx.forEach((i, r) => {
-    pending[i].check.adjustedPValue = h.adjusted[r];
-    pending[i].check.verdict = h.rejected[r] ? "fail" : pending[i].otherwise;
-  });
+  // --- Holm within each family, then the decision of each constant ----------------------------
+  const familySize: Record<Family, number> = { claims: 0, predictions: 0 };
+  for (const family of ["claims", "predictions"] as Family[]) {
+    const idx = pending.map((p, i) => (p.family === family && p.check.gated && p.check.pValue !== null && !Number.isNaN(p.check.pValue) ? i : -1)).filter((i) => i >= 0);
+    familySize[family] = idx.length;
+    const h = holm(idx.map((i) => pending[i].check.pValue!), alpha);
+    const zFail = normalQuantile(1 - alpha / (2 * Math.max(1, idx.length)));
+    idx.forEach((i, r) => {
+      const p = pending[i];
+      p.check.adjustedPValue = h.adjusted[r];
+      if (h.rejected[r]) {
+        p.check.verdict = "fail";
+        p.check.detail += ` FAIL: the value is rejected (Holm-adjusted p = ${fmtP(h.adjusted[r])} <= ${alpha} within the ${family} family of ${idx.length}).`;
+        return;
+      }
+      const c = p.constant;
+      if (!c) {
+        p.check.verdict = p.otherwise;
+        return;
+      }
+      const band = toleranceBand(c.value, c.tolerance);
+      const containsValue = c.interval[0] <= c.value && c.value <= c.interval[1];
+      if (containsValue && insideBand(c.interval, band)) {
+        p.check.verdict = "pass";
+        p.check.detail += ` PASS: the ${(100 * (1 - alpha)).toFixed(0)}% decision interval [${fmt(c.interval[0])}, ${fmt(c.interval[1])}] lies within value x (1 +- ${c.tolerance}) = [${fmt(band[0])}, ${fmt(band[1])}].`;
+        return;
+      }
+      p.check.verdict = "inconclusive";
+      const decide = pathsToDecide({ ...c, zPass, zFail });
+      p.check.pathsToDecide = decide.paths;
+      const state = !containsValue
+        ? `the value lies outside the ${(100 * (1 - alpha)).toFixed(0)}% decision interval [${fmt(c.interval[0])}, ${fmt(c.interval[1])}] but is not rejected after Holm (adjusted p = ${fmtP(h.adjusted[r])})`
+        : `the ${(100 * (1 - alpha)).toFixed(0)}% decision interval [${fmt(c.interval[0])}, ${fmt(c.interval[1])}] is not within value x (1 +- ${c.tolerance}) = [${fmt(band[0])}, ${fmt(band[1])}]`;
+      p.check.detail += ` INCONCLUSIVE: ${state}; ${decide.why}.`;
+    });
+  }
   const checks = pending.map((p) => p.check);
-  return { checks, limits, alpha, failed: checks.filter((c) => c.verdict === "fail").length };
+  const undecided = checks.filter((c) => c.source.startsWith("claim") && c.verdict === "inconclusive");
+  const pointEstimates: PointEstimate[] = [...estimates.values()].flatMap((e) => e.points);
+  return {
+    checks, limits, alpha, tolerance,
+    failed: checks.filter((c) => c.verdict === "fail").length,
+    undecidedClaims: undecided.map((c) => ({ id: c.id, pathsToDecide: c.pathsToDecide })),
+    familySizes: familySize,
+    estimates: pointEstimates,
+  };
 }

@@ -46,9 +46,24 @@ export interface ScaledSeries {
   quantity: "varianceLimit" | "meanGrowth";
   scaling: number;
   n: number[];
-  /** blocks[b][g]: moment state of grid point g in block b. */
-  blocks: MomentState[][];
+  /** The ratios Q_n / n^scaling at the grid points (Q = variance or mean, control-variate estimates where they help). */
+  y: number[];
+  /** Their delete-one-block jackknife covariance (G x G, row-major). */
+  cov: Float64Array;
+  /** Number of blocks behind the covariance (the GLS weight's degrees of freedom). */
+  blocks: number;
   expectedRate: number;
+}
+
+/** The plain ratios of a series from per-block moment states (blocks[b][g]), with their jackknife covariance. */
+export function plainRatios(quantity: ScaledSeries["quantity"], scaling: number, n: number[], blocks: MomentState[][]): { y: number[]; cov: Float64Array; blocks: number } {
+  const ratioOf = (st: MomentState, g: number): number => {
+    const scale = Math.pow(n[g], scaling);
+    if (quantity === "varianceLimit") return st.count >= 2 ? st.m2 / (st.count - 1) / scale : NaN;
+    return st.mean / scale;
+  };
+  const jk = blockJackknife(blocks, (merged) => merged.map((st, g) => ratioOf(st, g)));
+  return { y: Array.from(jk.estimate), cov: jk.covariance, blocks: blocks.length };
 }
 
 /** A test of a value against the extrapolated limit. */
@@ -66,20 +81,23 @@ export interface Extrapolation {
   /** Whether a calibrated test of a value is possible (a model with a misfit test or a derived rate). */
   testable: boolean;
   test: (value: number) => LimitTest;
+  /**
+   * The total interval (statistical, misfit-scaled, + systematic in quadrature) at a two-sided
+   * level, as the union over the admissible models (every assumed rate for "fixed").
+   */
+  interval: (level: number) => [number, number];
+  /** Why no decision is possible whatever the paths (unidentified rate, unbounded interval), else null. */
+  undecidable: string | null;
 }
 
-function ratioOf(s: ScaledSeries, st: MomentState, g: number): number {
-  const scale = Math.pow(s.n[g], s.scaling);
-  if (s.quantity === "varianceLimit") return st.count >= 2 ? st.m2 / (st.count - 1) / scale : NaN;
-  return st.mean / scale;
-}
+/** Misfit p-value below which the statistical errors are scaled by sqrt(chi2/df). */
+export const MISFIT_SCALE_P = 0.05;
 
 export function extrapolate(s: ScaledSeries): Extrapolation {
   const G = s.n.length;
-  const B = s.blocks.length;
-  const jk = blockJackknife(s.blocks, (merged) => merged.map((st, g) => ratioOf(s, st, g)));
-  const y = Array.from(jk.estimate);
-  const se = Array.from({ length: G }, (_, g) => Math.sqrt(jk.covariance[g * G + g]));
+  const B = s.blocks;
+  const y = s.y;
+  const se = Array.from({ length: G }, (_, g) => Math.sqrt(s.cov[g * G + g]));
   const ratios = s.n.map((n, g) => ({ n, value: y[g], standardError: se[g] }));
   // Grid points with no spread (e.g. a vertex count that is constant at tiny n) carry no
   // information and make the covariance singular: they are left out of the fits, and said so.
@@ -89,9 +107,9 @@ export function extrapolate(s: ScaledSeries): Extrapolation {
   if (keep.length === 0) {
     const last = G - 1;
     const limit: LimitEstimate = { measure: s.measure, quantity: s.quantity, scaling: s.scaling, level: LEVEL, ratios, method: "none", estimate: y[last], standardError: se[last], ci: null, beta: null, betaInterval: null, misfitPValue: null, sensitivity: [], note: "no grid point has any spread: nothing to extrapolate" };
-    return { limit, testable: false, test: () => ({ statistic: NaN, pValue: NaN, minPValue: NaN, statisticKind: "z" }) };
+    return { limit, testable: false, test: () => ({ statistic: NaN, pValue: NaN, minPValue: NaN, statisticKind: "z" }), interval: () => [NaN, NaN], undecidable: limit.note };
   }
-  return fitKept(s, keep.map((g) => s.n[g]), keep.map((g) => y[g]), keep.map((g) => se[g]), subMatrix(jk.covariance, G, keep), B, ratios, droppedNote);
+  return fitKept(s, keep.map((g) => s.n[g]), keep.map((g) => y[g]), keep.map((g) => se[g]), subMatrix(s.cov, G, keep), B, ratios, droppedNote);
 }
 
 function subMatrix(c: Float64Array, d: number, keep: number[]): Float64Array {
@@ -102,6 +120,7 @@ function subMatrix(c: Float64Array, d: number, keep: number[]): Float64Array {
 }
 
 interface LinearFit {
+  chi2: number;
   estimate: number;
   se: number;
   coef: Float64Array;
@@ -116,7 +135,7 @@ function linearFit(n: number[], y: number[], cov: Float64Array, B: number, basis
   const design: number[] = [];
   for (const v of n) for (const f of basis) design.push(f(v));
   const fit = linearGls(y, design, k, weightMatrix(cov, m, B));
-  return { estimate: fit.coef[0], se: Math.sqrt(fit.coefCov[0]), coef: fit.coef, df: fit.df, pValue: fit.pValue };
+  return { estimate: fit.coef[0], se: Math.sqrt(fit.coefCov[0]), coef: fit.coef, df: fit.df, pValue: fit.pValue, chi2: fit.chi2 };
 }
 
 type Basis = (n: number) => number;
@@ -209,6 +228,11 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
         const p = twoSidedNormalP(zz);
         return { statistic: zz, pValue: p, minPValue: p, statisticKind: "z" };
       },
+      interval: (lv) => {
+        const zz = normalQuantile(1 - (1 - lv) / 2);
+        return [y[last] - zz * se[last], y[last] + zz * se[last]];
+      },
+      undecidable: note,
     };
   };
   if (G <= 2) return none(`${what} at the largest n = ${nK[G - 1]} only (${G} grid point${G > 1 ? "s" : ""}: no extrapolation; the finite-n bias is unknown)`);
@@ -224,22 +248,42 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
   /** A fitted limit with its statistical interval, alternatives and systematic. */
   const finish = (
     method: "profile" | "log",
-    est: number, seStat: number, ciStat: [number, number], alternatives: { label: string; estimate: number }[],
+    est: number, seStat0: number, ciStat0: [number, number], alternatives: { label: string; estimate: number }[],
     extra: Pick<LimitEstimate, "beta" | "betaInterval" | "misfitPValue">, note: string, modelTestable: boolean,
+    chi2PerDf: number | null,
   ): Extrapolation => {
+    // A misfitting model still decides, with its statistical errors scaled by S = sqrt(chi2/df)
+    // (the scale factor of the Review of Particle Physics' averaging procedure; common practice).
+    const misfit = extra.misfitPValue !== null && extra.misfitPValue < MISFIT_SCALE_P && chi2PerDf !== null && chi2PerDf > 1;
+    const S = misfit ? Math.sqrt(chi2PerDf!) : 1;
+    const seStat = seStat0 * S;
+    const ciStat: [number, number] = [est - S * (est - ciStat0[0]), est + S * (ciStat0[1] - est)];
     const syst = systematicOf(est, alternatives);
     const ci = syst === null ? ciStat : totalInterval(est, ciStat, syst, z);
     const systNote = syst === null
       ? "; systematic NOT estimable (no alternative fit possible on this grid)"
       : `; systematic se_syst = ${syst.toPrecision(3)} = largest shift among alternative fits (${fmtAlt(alternatives)}); interval = statistical (${LEVEL * 100}%: [${ciStat[0].toPrecision(6)}, ${ciStat[1].toPrecision(6)}]) widened in quadrature by ${z.toFixed(2)} se_syst`;
+    const misfitNote = misfit ? `; the model misfits (p = ${extra.misfitPValue!.toExponential(1)} < ${MISFIT_SCALE_P}): statistical errors scaled by S = sqrt(chi2/df) = ${S.toFixed(2)}` : "";
+    const unbounded = !Number.isFinite(ci[0]) || !Number.isFinite(ci[1]);
+    const rateFree = extra.betaInterval !== null && extra.betaInterval !== undefined && extra.betaInterval[0] <= 0.1 + 1e-3 && extra.betaInterval[1] >= 2 - 1e-3;
     return {
-      limit: { ...base, method, estimate: est, standardError: seStat, ci, statisticalCi: ciStat, systematic: syst, alternatives, sensitivity: [], ...extra, note: note + systNote },
+      limit: { ...base, method, estimate: est, standardError: seStat, ci, statisticalCi: ciStat, systematic: syst, alternatives, sensitivity: [], ...extra, misfitScale: misfit ? S : null, note: note + misfitNote + systNote },
       testable: modelTestable && syst !== null,
       test: (v) => {
         const zz = zAgainst(est, ciStat, syst ?? 0, v, z);
         const p = twoSidedNormalP(zz);
         return { statistic: zz, pValue: p, minPValue: p, statisticKind: "z" };
       },
+      interval: (lv) => {
+        const zl = normalQuantile(1 - (1 - lv) / 2);
+        const st: [number, number] = [est - (zl / z) * (est - ciStat[0]), est + (zl / z) * (ciStat[1] - est)];
+        return syst === null ? st : totalInterval(est, st, syst, zl);
+      },
+      undecidable: unbounded
+        ? "the interval of the limit is unbounded"
+        : rateFree
+          ? "the rate interval spans the whole allowed range [0.1, 2]: the grid does not constrain the approach to the limit"
+          : null,
     };
   };
 
@@ -276,7 +320,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
       "log", g, gse, [g - z * gse, g + z * gse], alternatives,
       { beta: null, betaInterval: null, misfitPValue: fit.df > 0 ? fit.pValue : null },
       `GLS fit of ${what} = ${expansion.formula} (${expansion.why})${fit.df === 0 ? `; ${G} points, no misfit test` : ""}`,
-      fit.df > 0,
+      fit.df > 0, fit.df > 0 ? fit.chi2 / fit.df : null,
     );
   }
 
@@ -295,14 +339,19 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
       "profile", fit.s2, fit.s2SE, fit.s2Interval, alternatives,
       { beta: fit.beta, betaInterval: fit.betaInterval, misfitPValue: fit.pValue },
       `${fallback}GLS fit of ${what} = L + c n^-beta, beta profiled over [0.1, 2] (beta = ${fit.beta.toFixed(3)}, ${LEVEL * 100}% profile interval [${fit.betaInterval![0].toFixed(3)}, ${fit.betaInterval![1].toFixed(3)}]${fit.betaAtBound ? ", at a bound of the range" : ""}); profile-likelihood interval for L`,
-      true,
+      true, fit.df > 0 ? fit.chi2 / fit.df : null,
     );
   }
 
   const rates = Array.from(new Set([s.expectedRate, ...SENSITIVITY_RATES]));
   let fits;
   try {
-    fits = rates.map((b) => fitPowerLawFixed(nK, y, cov, b, opts));
+    // A misfitting assumed rate keeps deciding with its interval scaled by sqrt(chi2/df), as above.
+    fits = rates.map((b) => {
+      const f = fitPowerLawFixed(nK, y, cov, b, opts);
+      const S = f.df > 0 && f.pValue < MISFIT_SCALE_P && f.chi2 > f.df ? Math.sqrt(f.chi2 / f.df) : 1;
+      return { ...f, s2SE: f.s2SE * S, s2Interval: [f.s2 - S * (f.s2 - f.s2Interval[0]), f.s2 + S * (f.s2Interval[1] - f.s2)] as [number, number] };
+    });
   } catch (e) {
     return none(`fixed-rate fit impossible (${(e as Error).message}); ratio at the largest n only, bias unknown`);
   }
@@ -331,5 +380,15 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
       const ps = zs.map(twoSidedNormalP);
       return { statistic: zs[0], pValue: Math.max(...ps), minPValue: Math.min(...ps), statisticKind: "z" };
     },
+    // Union over the assumed rates: a value is decided only when every admissible rate agrees.
+    interval: (lv) => {
+      const zl = normalQuantile(1 - (1 - lv) / 2);
+      const each = fits.map((f, i) => {
+        const st: [number, number] = [f.s2 - (zl / z) * (f.s2 - f.s2Interval[0]), f.s2 + (zl / z) * (f.s2Interval[1] - f.s2)];
+        return systs[i] === null ? st : totalInterval(f.s2, st, systs[i]!, zl);
+      });
+      return [Math.min(...each.map((e) => e[0])), Math.max(...each.map((e) => e[1]))];
+    },
+    undecidable: null,
   };
 }

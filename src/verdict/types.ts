@@ -2,6 +2,7 @@
 // users' scripts: add, never rename.
 
 import type { Measure } from "../suite/schema.js";
+import type { PointEstimate } from "./estimates.js";
 
 export type CheckKind = "mean" | "varianceLimit" | "meanGrowth" | "limitLaw";
 export type Verdict = "pass" | "fail" | "inconclusive" | "confirmed" | "not-yet-visible";
@@ -32,6 +33,14 @@ export interface Check {
   gated: boolean;
   /** One or two sentences: the method, the assumptions, why this verdict. */
   detail: string;
+  /** The Holm family of a gated check ("claims" or "predictions"); null when not gated. */
+  family?: "claims" | "predictions" | null;
+  /** Relative tolerance of a pass (constants only), else null. */
+  tolerance?: number | null;
+  /** The (1 - alpha) interval (statistical + systematic) that decides a pass (constants only). */
+  decisionInterval?: [number, number] | null;
+  /** For an inconclusive constant: paths that would decide it (estimate and systematic assumed unchanged); null when more paths cannot. */
+  pathsToDecide?: number | null;
 }
 
 /** A limit estimated from the grid whatever was claimed (shown with its interval). */
@@ -60,6 +69,8 @@ export interface LimitEstimate {
    * over the alternative fits below; null when no alternative could be fitted (then nothing is gated).
    */
   systematic?: number | null;
+  /** S = sqrt(chi2/df) when the model misfits (p < 0.05) and its statistical errors were scaled by it; else null. */
+  misfitScale?: number | null;
   /** The alternative fits behind `systematic` (refit without the smallest n, alternative correction model). */
   alternatives?: { label: string; estimate: number }[];
   /** Ratio and its jackknife SE at each grid point. */
@@ -73,4 +84,12 @@ export interface VerdictReport {
   alpha: number;
   /** Number of checks with verdict "fail". */
   failed: number;
+  /** Default relative tolerance of a pass. */
+  tolerance?: number;
+  /** User claims left inconclusive (exit code 3 when nothing failed), with the paths that would decide. */
+  undecidedClaims?: { id: string; pathsToDecide: number | null | undefined }[];
+  /** Number of gated checks in each Holm family. */
+  familySizes?: { claims: number; predictions: number };
+  /** Plain and control-variate estimates of E M_n and Var M_n per measure and n. */
+  estimates?: PointEstimate[];
 }

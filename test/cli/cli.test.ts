@@ -31,7 +31,7 @@ describe("walkhull CLI", () => {
     const r = cli(["--help"]);
     expect(r.status).toBe(0);
     expect(r.stdout).toMatch(/walkhull run <suite\.json>/);
-    expect(r.stdout).toMatch(/Exit codes: 0 ok, 1 a check failed, 2 bad input/);
+    expect(r.stdout).toMatch(/Exit codes: 0 ok \(nothing failed and every claim of the suite decided\), 1 a check failed,\n2 bad input or usage, 3 nothing failed but a claim is undecided/);
   });
 
   it("runs a suite: a table on stdout and a JSON report with the contract fields", () => {

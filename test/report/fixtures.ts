@@ -77,7 +77,7 @@ export function buildOneWalk(over: Partial<typeof ONE_WALK> = {}, withChecks = t
   const suite = validateSuite({ ...ONE_WALK, ...over });
   const sim = simulateInProcess(suite);
   const verdicts = withChecks ? evaluateChecks(sim, ONE_WALK_PREDICTION) : undefined;
-  const report = buildReport(sim, new Date(Date.UTC(2026, 11, 2)), withChecks ? { predictions: ONE_WALK_PREDICTION, checks: verdicts!.checks, limits: verdicts!.limits } : {});
+  const report = buildReport(sim, new Date(Date.UTC(2026, 11, 2)), withChecks ? { predictions: ONE_WALK_PREDICTION, verdicts: verdicts! } : {});
   report.exitCode = verdicts && verdicts.failed > 0 ? 1 : 0;
   return { suite, sim, report, json: JSON.parse(toJson(report)) as Report };
 }

@@ -10,9 +10,9 @@ const G = 2 + Math.SQRT2;
 const empty: Prediction = { measures: [] };
 
 describe("systematic (model) uncertainty of extrapolated limits", () => {
-  it("6 grid points: every limit carries alternatives and se_syst, the total interval contains the statistical one, truths pass", () => {
+  it("6 grid points: every limit carries alternatives and se_syst, the total interval contains the statistical one, truths pass within a 5% tolerance", () => {
     const sim = synthesise({
-      seed: "syst6", grid: [10, 32, 100, 316, 1000, 3162], blocks: 64, pathsPerBlock: 1500, keep: 10,
+      seed: "syst6", grid: [10, 32, 100, 316, 1000, 3162], blocks: 64, pathsPerBlock: 1500, keep: 10, tolerance: 0.05,
       generators: { perimeter: driftPerimeter(S2, -2, G, 2, 1) },
       claims: [{ measure: "perimeter", varianceLimit: S2 }, { measure: "perimeter", meanGrowth: G }],
     });
