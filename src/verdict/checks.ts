@@ -49,7 +49,16 @@ function predictionSource(p: MeasurePrediction): string {
   return `prediction: ${p.sources.length ? p.sources.join("; ") : "no citation given"}`;
 }
 
-export function evaluateChecks(sim: SimulationResult, prediction: Prediction): VerdictReport {
+/**
+ * What evaluateChecks computes from the simulation alone (not from claims or predictions): callers
+ * that judge many claim sets on ONE simulation (the calibration) pass the same object each time.
+ */
+export interface VerdictCache {
+  estimates?: Map<Measure, MeasureEstimates>;
+  extrapolations?: Map<string, Extrapolation>;
+}
+
+export function evaluateChecks(sim: SimulationResult, prediction: Prediction, cache: VerdictCache = {}): VerdictReport {
   const suite = sim.suite;
   const alpha = suite.alpha ?? 0.01;
   const tol = suite.normalityTolerance ?? 0.01;
@@ -70,14 +79,19 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
 
   const blocksFor = (measure: Measure): MomentState[][] => measureBlocks(sim, measure);
   const predFor = (measure: Measure) => prediction.measures.find((m) => m.measure === measure);
-  const estimates = estimateMeasures(sim);
+  const estimates = (cache.estimates ??= estimateMeasures(sim));
+  const shared = (cache.extrapolations ??= new Map<string, Extrapolation>());
   const totalPaths = sim.blocks.reduce((a, b) => a + b.paths, 0);
 
   const extrapolations = new Map<string, Extrapolation>();
   const limitsOrder: string[] = [];
   const getExtrapolation = (measure: Measure, quantity: "varianceLimit" | "meanGrowth", scaling: number): Extrapolation => {
     const key = `${measure}|${quantity}|${scaling}`;
-    let ex = extrapolations.get(key);
+    let ex = extrapolations.get(key) ?? shared.get(key);
+    if (ex && !extrapolations.has(key)) {
+      extrapolations.set(key, ex);
+      limitsOrder.push(key);
+    }
     if (!ex) {
       const est = estimates.get(measure);
       const series = est
@@ -85,6 +99,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction): V
         : plainRatios(quantity, scaling, grid, blocksFor(measure));
       ex = extrapolate({ measure, quantity, scaling, n: grid, y: series.y, cov: series.cov, blocks: series.blocks, expectedRate });
       extrapolations.set(key, ex);
+      shared.set(key, ex);
       limitsOrder.push(key);
     }
     return ex;
