@@ -14,6 +14,7 @@
 // - hull: the points of one sample path per walk and the hull of all of them.
 
 import type { KeptSample, ResultRecord } from "../run/types.js";
+import { equalIntervalBreaks, extent, quantileSorted } from "simple-statistics";
 import { ksNormalDistance, meanSd } from "../stats/lilliefors.js";
 import { normalQuantile } from "../stats/normal.js";
 import type { MeasurePrediction } from "../theory/types.js";
@@ -132,7 +133,11 @@ export interface QQData {
   size: number;
 }
 
-/** K = min(m, maxPoints) quantile pairs at probabilities (i - 1/2)/K. */
+/**
+ * K = min(m, maxPoints) quantile pairs at probabilities (i - 1/2)/K; sample quantiles by
+ * simple-statistics' quantileSorted (linear interpolation between order statistics, the usual
+ * "type 7" definition).
+ */
 export function qqData(x: ArrayLike<number>, maxPoints = 400): QQData {
   const v = Float64Array.from(x).filter(Number.isFinite).sort();
   const m = v.length;
@@ -144,8 +149,7 @@ export function qqData(x: ArrayLike<number>, maxPoints = 400): QQData {
   for (let i = 0; i < K; i++) {
     const p = (i + 0.5) / K;
     theoretical.push(normalQuantile(p));
-    const j = Math.min(m - 1, Math.floor(p * m));
-    observed.push(sd > 0 ? (v[j] - mean) / sd : 0);
+    observed.push(sd > 0 ? (quantileSorted(v as unknown as number[], p) - mean) / sd : 0);
   }
   return { theoretical, observed, size: m };
 }
@@ -184,20 +188,15 @@ export function histogramData(x: ArrayLike<number>, maxBins = 40): HistogramData
   const m = v.length;
   if (m < 2) return { edges: [], density: [], size: m, discrete: false };
   const { mean, sd } = meanSd(v);
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const t of v) {
-    lo = Math.min(lo, t);
-    hi = Math.max(hi, t);
-  }
+  const [lo, hi] = extent(v as unknown as number[]);
   const integer = v.every(Number.isInteger);
   const discrete = integer && hi - lo + 1 <= 2 * maxBins;
   let rawEdges: number[];
   if (discrete) rawEdges = Array.from({ length: hi - lo + 2 }, (_, i) => lo - 0.5 + i);
   else {
     const bins = Math.max(5, Math.min(maxBins, Math.ceil(2 * Math.cbrt(m))));
-    const w = (hi - lo) / bins || 1;
-    rawEdges = Array.from({ length: bins + 1 }, (_, i) => lo + i * w);
+    // Equal-width bins over [min, max] (simple-statistics' equalIntervalBreaks); unit width when all equal.
+    rawEdges = hi > lo ? equalIntervalBreaks(v as unknown as number[], bins) : Array.from({ length: bins + 1 }, (_, i) => lo + i);
   }
   const bins = rawEdges.length - 1;
   const counts = new Array<number>(bins).fill(0);
