@@ -168,7 +168,7 @@ export function predict(suite: Suite, opts: PredictOptions = {}): Prediction {
         }
       }
     } else {
-      p.reasons.push("no finite-n formula for the mean diameter");
+      p.reasons.push(`no finite-n formula for the mean ${d.measure}`);
     }
     // The deferred Cauchy quadrature records its own targets.
     if (deferred.length === deferredBefore) recordTargets(p, opts.meanTargets);
