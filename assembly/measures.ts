@@ -77,8 +77,34 @@ export function diameter(hx: usize, hy: usize, h: i32): f64 {
   return Math.sqrt(best);
 }
 
+/**
+ * Minimal width by rotating calipers over the edges: for each edge (i, i+1) the vertex j farthest
+ * from its line (j advances while the next vertex lies farther, exact sign; the distance along
+ * a convex polygon is unimodal), and the smallest of those distances. The minimal width of a
+ * convex polygon is attained with one side on an edge, so this is exact up to the rounding of the
+ * distance. 0 for fewer than 3 vertices.
+ */
+export function width(hx: usize, hy: usize, h: i32): f64 {
+  if (h < 3) return 0.0;
+  let best = Infinity;
+  let j = 1;
+  for (let i = 0; i < h; i++) {
+    const i1 = i + 1 == h ? 0 : i + 1;
+    const ax = ld(hx, i), ay = ld(hy, i), bx = ld(hx, i1), by = ld(hy, i1);
+    for (let s = 0; s < h; s++) {
+      const j1 = j + 1 == h ? 0 : j + 1;
+      if (crossSign(bx, by, ax, ay, ld(hx, j1), ld(hy, j1), ld(hx, j), ld(hy, j)) <= 0) break;
+      j = j1;
+    }
+    const ex = bx - ax, ey = by - ay;
+    const d = (ex * (ld(hy, j) - ay) - ey * (ld(hx, j) - ax)) / Math.sqrt(ex * ex + ey * ey);
+    if (d < best) best = d;
+  }
+  return best;
+}
+
 /** Measures per grid point of a path's record (the registry's MEASURE_COUNT). */
-export const MEASURE_COUNT: i32 = 4;
+export const MEASURE_COUNT: i32 = 5;
 
 /** Every measure of the hull hx/hy (h vertices) at its registry slot of the record at r. */
 export function writeMeasures(r: usize, hx: usize, hy: usize, h: i32): void {
@@ -86,4 +112,5 @@ export function writeMeasures(r: usize, hx: usize, hy: usize, h: i32): void {
   store<f64>(r + 8, diameter(hx, hy, h));
   store<f64>(r + 16, area(hx, hy, h));
   store<f64>(r + 24, <f64>h);
+  store<f64>(r + 32, width(hx, hy, h));
 }

@@ -236,9 +236,28 @@ static double diameter(const double *hx, const double *hy, int h) {
 
 /* The record of one grid point: every measure at its slot (src/geometry/measure-registry.ts),
  * as assembly/measures.ts writeMeasures. */
-#define MEASURE_COUNT 4
+static double width(const double *hx, const double *hy, int h) {
+  if (h < 3) return 0.0;
+  double best = INFINITY;
+  int j = 1;
+  for (int i = 0; i < h; i++) {
+    int i1 = i + 1 == h ? 0 : i + 1;
+    double ax = hx[i], ay = hy[i], bx = hx[i1], by = hy[i1];
+    for (int s = 0; s < h; s++) {
+      int j1 = j + 1 == h ? 0 : j + 1;
+      if (crossSign(bx, by, ax, ay, hx[j1], hy[j1], hx[j], hy[j]) <= 0) break;
+      j = j1;
+    }
+    double ex = bx - ax, ey = by - ay;
+    double d = (ex * (hy[j] - ay) - ey * (hx[j] - ax)) / sqrt(ex * ex + ey * ey);
+    if (d < best) best = d;
+  }
+  return best;
+}
+#define MEASURE_COUNT 5
 static void writeMeasures(double *r, const double *hx, const double *hy, int h) {
   r[0] = perimeter(hx, hy, h); r[1] = diameter(hx, hy, h); r[2] = area(hx, hy, h); r[3] = (double)h;
+  r[4] = width(hx, hy, h);
 }
 
 /* ---- The path pipeline (assembly/paths.ts) ---- */

@@ -222,6 +222,29 @@ export function diameterOf(hx: ArrayLike<number>, hy: ArrayLike<number>, h: numb
   return Math.sqrt(best);
 }
 
+/**
+ * Minimal width by rotating calipers over the edges, as assembly/measures.ts width: for each edge
+ * the farthest vertex from its line (advanced with the exact sign), the smallest such distance.
+ */
+export function widthOf(hx: ArrayLike<number>, hy: ArrayLike<number>, h: number): number {
+  if (h < 3) return 0;
+  let best = Infinity;
+  let j = 1;
+  for (let i = 0; i < h; i++) {
+    const i1 = i + 1 === h ? 0 : i + 1;
+    const ax = hx[i], ay = hy[i], bx = hx[i1], by = hy[i1];
+    for (let s = 0; s < h; s++) {
+      const j1 = j + 1 === h ? 0 : j + 1;
+      if (crossSign(bx, by, ax, ay, hx[j1], hy[j1], hx[j], hy[j]) <= 0) break;
+      j = j1;
+    }
+    const ex = bx - ax, ey = by - ay;
+    const d = (ex * (hy[j] - ay) - ey * (hx[j] - ax)) / Math.sqrt(ex * ex + ey * ey);
+    if (d < best) best = d;
+  }
+  return best;
+}
+
 /** Hull vertices (counter-clockwise, strict, from the smallest (x, y)) of a point set. */
 export function convexHull(xs: ArrayLike<number>, ys: ArrayLike<number>): { x: Float64Array; y: Float64Array } {
   const n = xs.length;

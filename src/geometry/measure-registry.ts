@@ -5,7 +5,7 @@
 // and its brute-force oracle to test/engine/helpers.ts (a Record<Measure, ...> there fails to
 // type-check until it exists).
 
-import { areaOf, convexHull, diameterOf, perimeterOf } from "./convex-hull.js";
+import { areaOf, convexHull, diameterOf, perimeterOf, widthOf } from "./convex-hull.js";
 
 /** A functional of a hull given by h strict vertices, counter-clockwise (see convex-hull.ts). */
 export type HullFunctional = (hx: ArrayLike<number>, hy: ArrayLike<number>, h: number) => number;
@@ -34,6 +34,8 @@ export const MEASURE_REGISTRY = [
     oracle: "trapezoid sum over the edges of the brute-force hull" },
   { name: "vertices", slot: 3, scaling: { mean: 1, variance: 1 }, twin: (_hx, _hy, h) => h,
     oracle: "number of distinct points outside the hull of the others (exact orientation)" },
+  { name: "width", slot: 4, scaling: { mean: 0.5, variance: 1 }, twin: widthOf,
+    oracle: "over every pair of points whose line leaves all points on one side, the largest distance to it; the smallest" },
 ] as const satisfies readonly MeasureSpec[];
 
 export type Measure = (typeof MEASURE_REGISTRY)[number]["name"];

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { convexHull, hullMeasures, orient, crossSign } from "../../src/engine/twin.js";
-import { MEASURE_REGISTRY, type Measure } from "../../src/geometry/measure-registry.js";
+import { MEASURE_REGISTRY, measureSpec, type Measure } from "../../src/geometry/measure-registry.js";
 import { bruteMeasures, exactPoints, fixtureRandom, kernels, pointSets, relErr, GAUSS_ISO } from "./helpers.js";
 
 const sets = pointSets();
@@ -27,6 +27,9 @@ const AGREES: Record<Measure, (got: number, oracle: ReturnType<typeof bruteMeasu
   // Area: relative to the hull's own size (area can be 0 for degenerate sets).
   area: (got, o) => expect(Math.abs(got - o.area)).toBeLessThanOrEqual(1e-12 * Math.max(o.area, o.diameter ** 2 * 1e-3)),
   vertices: (got, o) => expect(got).toBe(o.vertices),
+  // Width: the calipers' distance rounds to within 8u (D + w) (u = 2^-53, D the diameter: the
+  // numerator's terms are at most |edge| D), the oracle's to 3u w; the bound doubles their sum.
+  width: (got, o) => expect(Math.abs(got - o.width)).toBeLessThanOrEqual(16 * 2 ** -53 * (o.diameter + o.width)),
 };
 
 describe.each(Object.entries(implementations))("%s vs brute-force oracles", (_name, hull) => {
@@ -51,21 +54,39 @@ describe.each(Object.entries(implementations))("%s vs brute-force oracles", (_na
 });
 
 describe("special cases", () => {
-  it("single point: 1 vertex, perimeter/diameter/area 0", () => {
+  it("single point: 1 vertex, perimeter/diameter/area/width 0", () => {
     for (const f of Object.values(implementations)) {
-      expect(Array.from(f([2.5], [-1]).measures)).toEqual([0, 0, 0, 1]);
-      expect(Array.from(f([2.5, 2.5, 2.5], [-1, -1, -1]).measures)).toEqual([0, 0, 0, 1]);
+      expect(Array.from(f([2.5], [-1]).measures)).toEqual([0, 0, 0, 1, 0]);
+      expect(Array.from(f([2.5, 2.5, 2.5], [-1, -1, -1]).measures)).toEqual([0, 0, 0, 1, 0]);
     }
   });
-  it("segment: 2 vertices, perimeter twice its length, area 0", () => {
+  it("segment: 2 vertices, perimeter twice its length, area and width 0", () => {
     for (const f of Object.values(implementations)) {
-      expect(Array.from(f([0, 3, 1.5, 0], [0, 4, 2, 0]).measures)).toEqual([10, 5, 0, 2]);
+      expect(Array.from(f([0, 3, 1.5, 0], [0, 4, 2, 0]).measures)).toEqual([10, 5, 0, 2, 0]);
     }
   });
   it("unit square with edge midpoints and centre: 4 vertices", () => {
     const xs = [0, 1, 1, 0, 0.5, 1, 0.5, 0, 0.5], ys = [0, 0, 1, 1, 0, 0.5, 1, 0.5, 0.5];
     for (const f of Object.values(implementations)) {
-      expect(Array.from(f(xs, ys).measures)).toEqual([4, Math.SQRT2, 1, 4]);
+      expect(Array.from(f(xs, ys).measures)).toEqual([4, Math.SQRT2, 1, 4, 1]);
+    }
+  });
+});
+
+describe("minimal width", () => {
+  it("known shapes: right isoceles triangle 1/sqrt 2 (its smallest altitude), 3x1 rectangle 1, regular hexagon of side 1 sqrt 3", () => {
+    const hex = Array.from({ length: 6 }, (_, i) => [Math.cos((i * Math.PI) / 3), Math.sin((i * Math.PI) / 3)]);
+    const cases: [number[], number[], number][] = [
+      [[0, 1, 0], [0, 0, 1], Math.SQRT1_2],
+      [[0, 3, 3, 0, 1.5], [0, 0, 1, 1, 0.5], 1],
+      [hex.map((p) => p[0]), hex.map((p) => p[1]), Math.sqrt(3)],
+    ];
+    for (const [xs, ys, w] of cases) {
+      for (const f of Object.values(implementations)) {
+        const got = f(xs, ys).measures[measureSpec("width").slot];
+        // Rounding bound as in AGREES.width (diameter <= 3.2 here).
+        expect(Math.abs(got - w)).toBeLessThanOrEqual(16 * 2 ** -53 * (3.2 + w));
+      }
     }
   });
 });

@@ -4,7 +4,7 @@
 import { compileWalks } from "../../src/engine/compile.js";
 import { createTwinKernel, type TwinKernel } from "../../src/engine/twin.js";
 import { createWasmKernel, loadWasmModuleSync, type WasmKernel } from "../../src/engine/wasm.js";
-import type { StepLaw } from "../../src/suite/schema.js";
+import type { Measure, StepLaw } from "../../src/suite/schema.js";
 
 // ---------------------------------------------------------------- exact arithmetic on doubles
 const view = new DataView(new ArrayBuffer(8));
@@ -73,10 +73,51 @@ export function bruteVertices(xs: ArrayLike<number>, ys: ArrayLike<number>): num
   return out;
 }
 
+/**
+ * Brute-force minimal width, by definition over every edge direction: for each pair of distinct
+ * points whose line leaves every point on one side (exact BigInt orientation), the largest
+ * distance of a point to that line; the smallest of those. 0 when all points are collinear.
+ * Distances from the exact integer cross product (one rounding) over the rounded edge length.
+ */
+export function bruteWidth(xs: ArrayLike<number>, ys: ArrayLike<number>): number {
+  const { X, Y } = exactPoints(xs, ys);
+  const n = X.length;
+  const scale = exactScale(xs, ys);
+  let best = Infinity;
+  let anyEdge = false;
+  for (let a = 0; a < n; a++) {
+    for (let b = 0; b < n; b++) {
+      if (X[a] === X[b] && Y[a] === Y[b]) continue;
+      let far = 0n, ok = true;
+      for (let r = 0; r < n && ok; r++) {
+        const o = orientB(X, Y, a, b, r);
+        if (o < 0n) ok = false;
+        else if (o > far) far = o;
+      }
+      if (!ok) continue;
+      anyEdge = true;
+      const len = Math.hypot(xs[b] - xs[a], ys[b] - ys[a]);
+      // far is the cross product on the common scale 2^eMin of exactPoints (it scales like the
+      // squared coordinates): one rounding in Number(far), exact powers of two after it.
+      const d = (Number(far) * scale * scale) / len;
+      if (d < best) best = d;
+    }
+  }
+  return anyEdge && Number.isFinite(best) ? best : 0;
+}
+
+/** The factor 2^eMin with x = X * 2^eMin for the integers X of exactPoints. */
+function exactScale(xs: ArrayLike<number>, ys: ArrayLike<number>): number {
+  const { X, Y } = exactPoints(xs, ys);
+  for (let i = 0; i < X.length; i++) {
+    if (X[i] !== 0n) return xs[i] / Number(X[i]);
+    if (Y[i] !== 0n) return ys[i] / Number(Y[i]);
+  }
+  return 1;
+}
+
 /** Oracle measures: vertices by definition, ordered by angle about their centroid. */
-export function bruteMeasures(xs: ArrayLike<number>, ys: ArrayLike<number>): {
-  perimeter: number; diameter: number; area: number; vertices: number; vx: number[]; vy: number[];
-} {
+export function bruteMeasures(xs: ArrayLike<number>, ys: ArrayLike<number>): Record<Measure, number> & { vx: number[]; vy: number[] } {
   const v = bruteVertices(xs, ys);
   let cx = 0, cy = 0;
   for (const i of v) { cx += xs[i]; cy += ys[i]; }
@@ -104,7 +145,7 @@ export function bruteMeasures(xs: ArrayLike<number>, ys: ArrayLike<number>): {
       d2 = Math.max(d2, dx * dx + dy * dy);
     }
   }
-  return { perimeter, diameter: Math.sqrt(d2), area, vertices: h, vx, vy };
+  return { perimeter, diameter: Math.sqrt(d2), area, vertices: h, width: bruteWidth(xs, ys), vx, vy };
 }
 
 export function relErr(a: number, b: number): number {

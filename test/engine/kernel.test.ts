@@ -2,7 +2,8 @@ import { describe, expect, it } from "vitest";
 import { compileWalks } from "../../src/engine/compile.js";
 import { createWasmKernel, loadWasmModule } from "../../src/engine/wasm.js";
 import { Rng, zigguratTables } from "../../src/engine/twin.js";
-import type { StepLaw } from "../../src/suite/schema.js";
+import type { Measure, StepLaw } from "../../src/suite/schema.js";
+import { recordLayout } from "../../src/engine/types.js";
 import { bruteMeasures, kernels, relErr, wasmModuleOnce, SAMPLE_LAWS, GAUSS_ISO } from "./helpers.js";
 
 const GRID = [1, 2, 7, 50, 300];
@@ -23,7 +24,10 @@ describe("WASM == twin", () => {
       // AssemblyScript's math library (circle steps, student tails).
       expect(maxRel(a, b)).toBeLessThan(1e-12);
       // Vertex counts are integers and must agree exactly.
-      for (let i = 3; i < a.length; i += 4) expect(b[i]).toBe(a[i]);
+      const layout = recordLayout(GRID.length);
+      for (let i = 0; i < a.length; i += layout.width) {
+        for (let g = 0; g < GRID.length; g++) expect(b[i + layout.index(g, "vertices")]).toBe(a[i + layout.index(g, "vertices")]);
+      }
     }
   });
   it("three walks, large grid, several blocks", () => {
@@ -69,7 +73,7 @@ describe("WASM == twin", () => {
     const m = await loadWasmModule();
     const setup = { walks: compileWalks([GAUSS_ISO]), grid: [10], seed: 1 };
     const k = createWasmKernel(m, setup);
-    expect(k.runBlock(0, 3).length).toBe(12);
+    expect(k.runBlock(0, 3).length).toBe(3 * recordLayout(1).width);
   });
 });
 
@@ -100,11 +104,14 @@ describe("kernel values equal the oracles on the sampled path", () => {
           const xs: number[] = [], ys: number[] = [];
           for (const p of points) for (let i = 0; i <= n; i++) { xs.push(p[2 * i]); ys.push(p[2 * i + 1]); }
           const o = bruteMeasures(xs, ys);
-          const [per, dia, area, vert] = values.subarray(4 * g, 4 * g + 4);
-          expect(vert).toBe(o.vertices);
-          expect(relErr(per, o.perimeter)).toBeLessThan(1e-12);
-          expect(relErr(dia, o.diameter)).toBeLessThan(1e-15);
-          expect(Math.abs(area - o.area)).toBeLessThanOrEqual(1e-12 * Math.max(o.area, 1));
+          const layout = recordLayout(grid.length);
+          const at = (m: Measure) => values[layout.index(g, m)];
+          expect(at("vertices")).toBe(o.vertices);
+          expect(relErr(at("perimeter"), o.perimeter)).toBeLessThan(1e-12);
+          expect(relErr(at("diameter"), o.diameter)).toBeLessThan(1e-15);
+          expect(Math.abs(at("area") - o.area)).toBeLessThanOrEqual(1e-12 * Math.max(o.area, 1));
+          // Width: the rounding bound of test/engine/geometry.test.ts (AGREES.width).
+          expect(Math.abs(at("width") - o.width)).toBeLessThanOrEqual(16 * 2 ** -53 * (o.diameter + o.width));
         });
       }
     }
@@ -119,10 +126,11 @@ describe("streams", () => {
     const last = kernels(laws, [1000], 8);
     for (const kind of ["twin", "wasm"] as const) {
       const a = full[kind].runBlock(5, 20), b = first[kind].runBlock(5, 20), c = last[kind].runBlock(5, 20);
+      const w = recordLayout(1).width; // one grid point's record
       for (let p = 0; p < 20; p++) {
-        for (let m = 0; m < 4; m++) {
-          expect(a[12 * p + m]).toBe(b[4 * p + m]);
-          expect(a[12 * p + 8 + m]).toBe(c[4 * p + m]);
+        for (let m = 0; m < w; m++) {
+          expect(a[3 * w * p + m]).toBe(b[w * p + m]);
+          expect(a[3 * w * p + 2 * w + m]).toBe(c[w * p + m]);
         }
       }
     }
@@ -135,7 +143,8 @@ describe("streams", () => {
     expect(Array.from(again.runBlock(4, 30))).toEqual(Array.from(a));
     expect(Array.from(wasm.runBlock(4, 30))).toEqual(Array.from(a)); // re-run on the same instance
     expect(Array.from(twin.runBlock(4, 30))).toEqual(Array.from(a));
-    const perims = (v: Float64Array) => Array.from({ length: 30 }, (_, p) => v[4 * p]);
+    const w = recordLayout(1).width;
+    const perims = (v: Float64Array) => Array.from({ length: 30 }, (_, p) => v[w * p + recordLayout(1).index(0, "perimeter")]);
     const pa = new Set(perims(a));
     for (const b of [wasm.runBlock(5, 30), wasm.runBlock(0, 30), other.runBlock(4, 30)]) {
       expect(perims(b).filter((x) => pa.has(x)).length).toBe(0);

@@ -5,6 +5,13 @@ import { readdirSync, readFileSync } from "node:fs";
 import { join } from "node:path";
 import Ajv2020Module from "ajv/dist/2020.js";
 import { sampleColumns, samplesCsv } from "../../src/report/samples.js";
+import { buildReport, toJson } from "../../src/report/json.js";
+import { renderHtml } from "../../src/report/html.js";
+import { renderMarkdown } from "../../src/report/markdown.js";
+import { simulateInProcess } from "../../src/run/simulate.js";
+import { validateSuite } from "../../src/suite/load.js";
+import { predict } from "../../src/theory/predict.js";
+import { evaluateChecks } from "../../src/verdict/checks.js";
 import { measureSample } from "../../src/run/series.js";
 import { buildOneWalk } from "./fixtures.js";
 
@@ -79,5 +86,25 @@ describe("JSON Schemas", () => {
     const badVerdict = JSON.parse(JSON.stringify(json));
     badVerdict.checks[0].verdict = "ok";
     expect(reportSchema(badVerdict)).toBe(false);
+  });
+});
+
+describe("the width measure end to end (no prediction: an estimate with its CI)", () => {
+  it("appears in results, limits, the samples CSV, report.md, report.html, and the report is schema-valid", () => {
+    const suite = validateSuite({ seed: 3, walks: [{ law: "gaussian", mean: [1, 0], cov: [[1, 0], [0, 1]] }], measure: ["width"], n: [50, 200], paths: 1280 });
+    const sim = simulateInProcess(suite);
+    const verdicts = evaluateChecks(sim, predict(suite));
+    const report = buildReport(sim, new Date(Date.UTC(2026, 11, 2)), { predictions: predict(suite), checks: verdicts.checks, limits: verdicts.limits });
+    const json = JSON.parse(toJson(report));
+    expect(reportSchema(json) ? null : reportSchema.errors).toBeNull();
+    expect(json.results.map((r: { measure: string; n: number }) => `${r.measure}@${r.n}`)).toEqual(["width@50", "width@200"]);
+    const limits = verdicts.limits.filter((l) => l.measure === "width");
+    expect(limits.map((l) => l.quantity).sort()).toEqual(["meanGrowth", "varianceLimit"]);
+    for (const l of limits) expect(Number.isFinite(l.ci[0]!) && Number.isFinite(l.ci[1]!)).toBe(true);
+    expect(verdicts.checks.filter((c) => c.measure === "width").every((c) => !c.gated)).toBe(true);
+    expect(samplesCsv(suite, sim.sample).split("\n")[0]).toBe("path,width@50,width@200");
+    expect(renderMarkdown(report)).toMatch(/^\| width \| 200 \|/m);
+    const html = renderHtml(report, { sample: sim.sample });
+    expect(html).toContain('data-measure="width"');
   });
 });
