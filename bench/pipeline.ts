@@ -323,6 +323,48 @@ for (const workers of [1, 2]) {
 const efficiency = parallel[1].pathsPerSecond / (2 * parallel[0].pathsPerSecond);
 const marginalEfficiency = parallel[1].marginalPathsPerSecond / (2 * parallel[0].marginalPathsPerSecond);
 
+// 2 workers end to end against the native C build on one core, same simulation (paths, walks, n),
+// both by the wall clock.
+const nativeParallel = native
+  ? Number(execFileSync(native, [zigFile, "time", "1", "0", String(PARALLEL_PATHS), "1000", "2", ...walkArgs(2), "1"],
+    { encoding: "utf8", env: { ...process.env, WALKHULL_CPU_CLOCK: "0" } }).trim().split(/\s+/)[0])
+  : null;
+const twoOverNative = nativeParallel === null ? null : parallel[1].seconds / nativeParallel;
+
+// ---- Checks' share of a run: `walkhull run` (a fresh process, 2 workers) with checks against
+// --no-checks, with a cold prediction cache (a new XDG_CACHE_HOME each time) and a warm one; rounds
+// alternate the three kinds, medians of the rounds.
+const CHECK_PATHS = smoke ? 4000 : 100_000;
+const CHECK_ROUNDS = smoke ? 1 : 3;
+const cliPath = fileURLToPath(new URL("../dist/cli.js", import.meta.url));
+const checkSuite = join(tmp, "checks-suite.json");
+writeFileSync(checkSuite, JSON.stringify({
+  title: "bench: two Gaussian walks with drifts (1, 0) and (0, 1)", seed: 5, walks: lawsFor(2),
+  measure: ["perimeter", "diameter", "area", "vertices"], n: [31, 62, 125, 250, 500, 1000], paths: CHECK_PATHS,
+}));
+const warmCache = mkdtempSync(join(tmp, "cache-warm-"));
+const cliSeconds = (extra: string[], cacheHome: string): number => {
+  const t0 = performance.now();
+  const r = spawnSync(process.execPath, [cliPath, "run", checkSuite, "--workers", "2", "--quiet", "--checkpoint", join(tmp, "checks.ckpt"), ...extra],
+    { encoding: "utf8", env: { ...process.env, XDG_CACHE_HOME: cacheHome } });
+  const seconds = (performance.now() - t0) / 1000;
+  if (r.status !== 0 && r.status !== 1) throw new Error(`checks bench: walkhull run exited ${r.status}: ${r.stderr}`);
+  return seconds;
+};
+cliSeconds([], warmCache); // fills the warm cache (and the file system cache)
+const kinds = { noChecks: [] as number[], cold: [] as number[], warm: [] as number[] };
+for (let round = 0; round < CHECK_ROUNDS; round++) {
+  kinds.noChecks.push(cliSeconds(["--no-checks"], warmCache));
+  kinds.cold.push(cliSeconds([], mkdtempSync(join(tmp, "cache-cold-"))));
+  kinds.warm.push(cliSeconds([], warmCache));
+}
+const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+const checksShare = {
+  paths: CHECK_PATHS, rounds: CHECK_ROUNDS, runs: kinds,
+  noChecks: median(kinds.noChecks), cold: median(kinds.cold), warm: median(kinds.warm),
+  coldRatio: median(kinds.cold) / median(kinds.noChecks), warmRatio: median(kinds.warm) / median(kinds.noChecks),
+};
+
 // Memory of one worker: its V8 heap and its kernel's WASM memory, reported by an idle worker that
 // holds one kernel instance for the parallel suite (thread stacks and compiled code not counted).
 const workerMemory = await (async () => {
@@ -356,6 +398,10 @@ const targets = [
   { target: "<= 35 ns/step, two Gaussian walks, n = 1e4", value: at(2, 10000)?.wasm ?? NaN, met: at(2, 10000) ? at(2, 10000)!.wasm <= 35 : null },
   { target: "parallel efficiency >= 90% on 2 workers (end to end)", value: efficiency, met: os.cpus().length >= 2 ? efficiency >= 0.9 : null },
   { target: "parallel efficiency >= 90% on 2 workers (marginal, start-up excluded)", value: marginalEfficiency, met: os.cpus().length >= 2 ? marginalEfficiency >= 0.9 : null },
+  { target: "parallel efficiency >= 85% on 2 workers (end to end, 40k paths)", value: efficiency, met: os.cpus().length >= 2 && !smoke ? efficiency >= 0.85 : null },
+  { target: "2 workers end to end <= 0.53x the native C one-core wall time (same simulation)", value: twoOverNative ?? NaN, met: twoOverNative === null || smoke ? null : twoOverNative <= 0.53 },
+  { target: `full run / --no-checks run, ${CHECK_PATHS} paths, cold prediction cache: <= 1.25`, value: checksShare.coldRatio, met: smoke ? null : checksShare.coldRatio <= 1.25 },
+  { target: `full run / --no-checks run, ${CHECK_PATHS} paths, warm prediction cache: <= 1.05`, value: checksShare.warmRatio, met: smoke ? null : checksShare.warmRatio <= 1.05 },
 ];
 
 // ---- Print.
@@ -387,6 +433,13 @@ out.push("| workers | seconds | paths/s | marginal paths/s |");
 out.push("|---|---|---|---|");
 for (const p of parallel) out.push(`| ${p.workers} | ${p.seconds.toFixed(2)} | ${p.pathsPerSecond.toFixed(0)} | ${p.marginalPathsPerSecond.toFixed(0)} |`);
 out.push(`parallel efficiency (paths/s with 2) / (2 x paths/s with 1): ${(100 * efficiency).toFixed(1)}% end to end, ${(100 * marginalEfficiency).toFixed(1)}% marginal`);
+if (nativeParallel !== null) out.push(`native C on one core, same ${PARALLEL_PATHS} paths: ${nativeParallel.toFixed(2)} s wall; 2 workers / native one core = ${f2(twoOverNative)}`);
+out.push(`\nChecks' share of a run: walkhull run (new process, 2 workers), two walks, n = 31..1000 (6 points), ${CHECK_PATHS} paths; medians of ${CHECK_ROUNDS} alternating rounds, wall clock`);
+out.push("| run | seconds | / --no-checks |");
+out.push("|---|---|---|");
+out.push(`| --no-checks | ${checksShare.noChecks.toFixed(2)} | 1.00 |`);
+out.push(`| checks, cold prediction cache | ${checksShare.cold.toFixed(2)} | ${f2(checksShare.coldRatio)} |`);
+out.push(`| checks, warm prediction cache | ${checksShare.warm.toFixed(2)} | ${f2(checksShare.warmRatio)} |`);
 out.push(`memory per worker (k = 2, n = 1000): V8 heap ${workerMemory.v8HeapMB.toFixed(1)} MiB + WASM memory ${workerMemory.wasmMB.toFixed(1)} MiB (the WASM table above gives other k, n)`);
 out.push("\nTargets");
 out.push("| target | measured | met |");
@@ -402,7 +455,7 @@ if (jsonFile) {
   writeFileSync(jsonFile, JSON.stringify({
     env, nativeCheck, nativeNote: nativeNote || null, numpyNote: numpyNote || null,
     units: "ns per step (a step moves every walk once); draws: ns per draw",
-    pipeline, stages, draws, memory, workerMemory, parallel: { runs: parallel, efficiency, marginalEfficiency }, targets,
+    pipeline, stages, draws, memory, workerMemory, parallel: { runs: parallel, efficiency, marginalEfficiency, nativeOneCoreSeconds: nativeParallel, twoWorkersOverNative: twoOverNative }, checksShare, targets,
   }, null, 2) + "\n");
   console.log(`wrote ${jsonFile}`);
 }

@@ -14,6 +14,7 @@ import { runMeanTargets } from "./run/accuracy.js";
 import type { Prediction } from "./theory/types.js";
 import { evaluateChecks, renderChecks } from "./verdict/checks.js";
 import { runSuite } from "./run/run.js";
+import type { EarlyWorkers } from "./run/prestart.js";
 import { CheckpointError, type PartSpec } from "./run/checkpoint.js";
 import { combinePartFiles, CombineError, partFile } from "./run/parts.js";
 import type { SimulationResult } from "./run/types.js";
@@ -210,7 +211,7 @@ function defaultCheckpoint(suite: LoadedSuite, out: string | undefined, part: Pa
   return `.walkhull-checkpoint-${suite.hash.slice(0, 12)}${tag}.json`;
 }
 
-async function cmdRun(args: string[]): Promise<number> {
+async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<number> {
   const { flags, positionals } = parse(args, {
     paths: { type: "string" },
     seed: { type: "string" },
@@ -261,6 +262,7 @@ async function cmdRun(args: string[]): Promise<number> {
       stopAfterBlocks: stopAfter,
       progress: !quiet && Boolean(process.stderr.isTTY),
       handleSignals: true,
+      early,
     });
   } catch (e) {
     if (e instanceof CheckpointError) throw new UsageError(e.message);
@@ -374,12 +376,13 @@ async function cmdPlan(args: string[]): Promise<number> {
   return EXIT_OK;
 }
 
-export async function main(argv: string[]): Promise<number> {
+/** `early`: workers started ahead by src/cli.ts (prestartWorkers), for `run`. */
+export async function main(argv: string[], early: EarlyWorkers | null = null): Promise<number> {
   const [cmd, ...rest] = argv;
   try {
     switch (cmd) {
       case "run":
-        return await cmdRun(rest);
+        return await cmdRun(rest, early);
       case "predict":
         return await cmdPredict(rest);
       case "combine":

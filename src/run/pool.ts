@@ -9,8 +9,8 @@ import type { LoadedSuite } from "../suite/schema.js";
 import { createKernel, runOneBlock, type BlockCollector, type KernelKind } from "./simulate.js";
 import type { BlockOutput } from "./blocks.js";
 
-/** The worker script is always the compiled one (tsx does not reach worker_threads on Node 20). */
-const WORKER_URL = new URL("../../dist/run/worker.js", import.meta.url);
+import { takeEarly, WORKER_URL, type EarlyWorkers } from "./prestart.js";
+
 const MAX_TRIES_PER_BLOCK = 3;
 
 export function defaultWorkers(): number {
@@ -31,6 +31,8 @@ export interface PoolOptions {
   onWarning?: (message: string) => void;
   /** Testing hook: the worker that first receives this block throws (the block must be re-run). */
   failOnceAtBlock?: number;
+  /** Workers (and the module compile) started ahead of the suite by prestartWorkers: taken first. */
+  early?: EarlyWorkers | null;
 }
 
 export interface PoolOutcome {
@@ -41,7 +43,8 @@ export interface PoolOutcome {
 export async function runBlocks(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcome> {
   if (opts.blocks.length === 0) return { stopped: false, blocksRun: 0 };
   if (opts.workers <= 1 && opts.failOnceAtBlock === undefined) return runHere(suite, opts);
-  return runOnWorkers(suite, opts);
+  const compiled = opts.kernel === "wasm" && opts.early ? await opts.early.module : null;
+  return runOnWorkers(suite, opts, compiled);
 }
 
 async function runHere(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcome> {
@@ -59,8 +62,8 @@ async function runHere(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutco
   return { stopped: false, blocksRun };
 }
 
-function runOnWorkers(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcome> {
-  const module = opts.kernel === "wasm" ? loadWasmModuleSync() : undefined;
+function runOnWorkers(suite: LoadedSuite, opts: PoolOptions, compiled: WebAssembly.Module | null): Promise<PoolOutcome> {
+  const module = opts.kernel === "wasm" ? compiled ?? loadWasmModuleSync() : undefined;
   const queue = [...opts.blocks];
   const tries = new Map<number, number>();
   const live = new Set<Worker>();
@@ -78,8 +81,9 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcom
       else resolve(outcome);
     };
 
-    const spawn = () => {
-      const worker = new Worker(WORKER_URL, { workerData: { suite, kernel: opts.kernel, module } });
+    const spawn = (started?: Worker) => {
+      const worker = started ?? new Worker(WORKER_URL, { workerData: { suite, kernel: opts.kernel, module } });
+      if (started) worker.postMessage({ setup: { suite, kernel: opts.kernel, module } });
       live.add(worker);
       let current: number | null = null;
 
@@ -115,8 +119,9 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcom
         spawn();
       };
 
-      worker.on("message", (msg: { block: number; out?: BlockOutput; error?: string }) => {
+      worker.on("message", (msg: { ready?: boolean; block: number; out?: BlockOutput; error?: string }) => {
         if (finished) return;
+        if (msg.ready) return next();
         if (msg.error !== undefined || !msg.out) return lost(msg.error ?? "no output");
         try {
           opts.collector.add(msg.out);
@@ -129,10 +134,10 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions): Promise<PoolOutcom
       });
       worker.on("error", (e) => lost(e.message));
       worker.on("exit", (code) => lost(`exited with code ${code}`));
-      worker.once("online", next);
     };
 
     const n = Math.min(opts.workers, queue.length);
-    for (let i = 0; i < n; i++) spawn();
+    const early = takeEarly(opts.early, n);
+    for (let i = 0; i < n; i++) spawn(early[i]);
   });
 }

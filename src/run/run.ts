@@ -6,6 +6,7 @@ import { toolVersion } from "../version.js";
 import { readCheckpoint, writeCheckpoint, type PartSpec } from "./checkpoint.js";
 import { defaultWorkers, runBlocks } from "./pool.js";
 import { Progress } from "./progress.js";
+import type { EarlyWorkers } from "./prestart.js";
 import { BlockCollector, type KernelKind } from "./simulate.js";
 import type { SimulationResult } from "./types.js";
 
@@ -27,6 +28,8 @@ export interface RunOptions {
   failOnceAtBlock?: number;
   /** Where progress and the final summary go (default stderr). */
   log?: (text: string) => void;
+  /** Workers started ahead of the suite (src/run/prestart.ts). */
+  early?: EarlyWorkers | null;
 }
 
 export type RunOutcome =
@@ -78,6 +81,7 @@ export async function runSuite(suite: LoadedSuite, opts: RunOptions = {}): Promi
       blocks: todo,
       collector,
       failOnceAtBlock: opts.failOnceAtBlock,
+      early: opts.early,
       onWarning: opts.onWarning ?? ((m) => log(`walkhull: warning: ${m}\n`)),
       shouldStop: () => stopReason !== null,
       onBlock: () => {

@@ -31,6 +31,9 @@ describe("bench --smoke", () => {
       expect(j.stages).toHaveLength(4);
       expect(j.draws.map((d: { what: string }) => d.what)).toContain("step law: student (dof 5)");
       expect(j.parallel.runs.map((p: { workers: number }) => p.workers)).toEqual([1, 2]);
+      expect(r.stdout).toContain("Checks' share of a run");
+      for (const kind of ["noChecks", "cold", "warm"]) expect(j.checksShare[kind]).toBeGreaterThan(0);
+      expect(j.checksShare.coldRatio).toBeCloseTo(j.checksShare.cold / j.checksShare.noChecks, 12);
       expect(j.targets.length).toBeGreaterThanOrEqual(6);
       if (hasGcc) {
         expect(j.nativeCheck.compared).toBeGreaterThan(0);

@@ -8,6 +8,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { validateSuite } from "../../src/suite/load.js";
 import { runSuite } from "../../src/run/run.js";
+import { prestartWorkers, releaseEarly } from "../../src/run/prestart.js";
 
 const ROOT = new URL("../../", import.meta.url).pathname;
 const CLI = join(ROOT, "dist/cli.js");
@@ -55,6 +56,25 @@ describe("same bits whatever the worker count", () => {
       expect(r.blocks).toEqual(runs[0].blocks);
       expect(r.sample.pathIndex).toEqual(runs[0].sample.pathIndex);
       expect(r.sample.values).toEqual(runs[0].sample.values);
+    }
+  });
+
+  it("workers started early (before the suite, as `walkhull run` does) give the same bits; unused ones are ended", async () => {
+    const suite = validateSuite(suiteJson);
+    const plain = await runSuite(suite, { workers: 2, checkpoint: null, log: () => {} });
+    const early = prestartWorkers(["run", "suite.json", "--workers", "3"]);
+    expect(early?.workers).toHaveLength(3);
+    expect(prestartWorkers(["run", "suite.json", "--workers", "1"])).toBeNull();
+    expect(prestartWorkers(["predict", "suite.json"])).toBeNull();
+    const o = await runSuite(suite, { workers: 2, checkpoint: null, log: () => {}, early });
+    expect(early!.workers).toHaveLength(1); // two taken by the pool
+    releaseEarly(early);
+    expect(early!.workers).toHaveLength(0);
+    expect(o.status).toBe("done");
+    if (o.status === "done" && plain.status === "done") {
+      expect(o.sim.results).toEqual(plain.sim.results);
+      expect(o.sim.blocks).toEqual(plain.sim.blocks);
+      expect(o.sim.sample.values).toEqual(plain.sim.sample.values);
     }
   });
 
