@@ -10,11 +10,11 @@ import { loadSuite, SuiteError } from "./suite/load.js";
 import type { LoadedSuite } from "./suite/schema.js";
 import { renderPredictionTable } from "./theory/predict.js";
 import { predictCached } from "./theory/cache.js";
-import { runMeanTargets } from "./run/accuracy.js";
 import type { Prediction } from "./theory/types.js";
 import { evaluateChecks, renderChecks } from "./verdict/checks.js";
 import { runSuite } from "./run/run.js";
 import type { EarlyWorkers } from "./run/prestart.js";
+import { EarlyPrediction, predictionTargets } from "./run/early-prediction.js";
 import { CheckpointError, type PartSpec } from "./run/checkpoint.js";
 import { combinePartFiles, CombineError, partFile } from "./run/parts.js";
 import type { SimulationResult } from "./run/types.js";
@@ -148,6 +148,8 @@ interface FinishOptions {
   predictBudget: number;
   /** Read and write the prediction cache (not --no-cache). */
   cache: boolean;
+  /** Predictions already computed (run: overlapped with the simulation, src/run/early-prediction.ts). */
+  prediction?: Prediction;
   /** --report DIR, --junit FILE, --samples FILE */
   reportDir?: string;
   junit?: string;
@@ -178,7 +180,7 @@ function sampleGeometry(sim: SimulationResult): HtmlExtras {
 function finish(sim: SimulationResult, opts: FinishOptions): number {
   const suite = sim.suite;
   const prediction = opts.withChecks
-    ? predictCached(suite, { budgetSeconds: opts.predictBudget, meanTargets: runMeanTargets(sim) }, { use: opts.cache })
+    ? opts.prediction ?? predictCached(suite, { budgetSeconds: opts.predictBudget, meanTargets: predictionTargets(sim) }, { use: opts.cache })
     : undefined;
   const verdicts = prediction ? evaluateChecks(sim, prediction) : undefined;
   const report = buildReport(sim, opts.startedAt, { predictions: prediction, verdicts });
@@ -251,6 +253,8 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
   checkOutPath(checkpoint, "checkpoint");
   const quiet = Boolean(flags.quiet);
   const startedAt = new Date();
+  const withChecks = !flags["no-checks"];
+  const earlyPrediction = withChecks && !part ? new EarlyPrediction(suite, predictBudget, !flags["no-cache"]) : null;
   let outcome;
   try {
     outcome = await runSuite(suite, {
@@ -263,12 +267,15 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
       progress: !quiet && Boolean(process.stderr.isTTY),
       handleSignals: true,
       early,
+      onBlockMerged: (blocks) => earlyPrediction?.offer(blocks),
     });
   } catch (e) {
+    earlyPrediction?.dispose();
     if (e instanceof CheckpointError) throw new UsageError(e.message);
     throw e;
   }
   if (outcome.status === "stopped") {
+    earlyPrediction?.dispose();
     return outcome.reason === "SIGINT" ? EXIT_SIGINT : outcome.reason === "SIGTERM" ? EXIT_SIGTERM : EXIT_STOPPED;
   }
   const { sim, collector } = outcome;
@@ -278,7 +285,8 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
     process.stdout.write(`part ${part.index} of ${part.count}: ${sim.blocks.length} blocks, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths -> ${out}\n`);
     code = EXIT_OK;
   } else {
-    code = finish(sim, { out, quiet, withChecks: !flags["no-checks"], startedAt, predictBudget, cache: !flags["no-cache"], ...outputs });
+    const prediction = earlyPrediction ? await earlyPrediction.resolve(sim) : undefined;
+    code = finish(sim, { out, quiet, withChecks, startedAt, predictBudget, cache: !flags["no-cache"], prediction, ...outputs });
   }
   rmSync(checkpoint, { force: true });
   return code;

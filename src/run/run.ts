@@ -8,7 +8,7 @@ import { defaultWorkers, runBlocks } from "./pool.js";
 import { Progress } from "./progress.js";
 import type { EarlyWorkers } from "./prestart.js";
 import { BlockCollector, type KernelKind } from "./simulate.js";
-import type { SimulationResult } from "./types.js";
+import type { BlockStats, SimulationResult } from "./types.js";
 
 export interface RunOptions {
   workers?: number;
@@ -30,6 +30,8 @@ export interface RunOptions {
   log?: (text: string) => void;
   /** Workers started ahead of the suite (src/run/prestart.ts). */
   early?: EarlyWorkers | null;
+  /** After each merged block, the blocks merged so far (e.g. to start the predictions early). */
+  onBlockMerged?: (blocks: Map<number, BlockStats>) => void;
 }
 
 export type RunOutcome =
@@ -86,6 +88,7 @@ export async function runSuite(suite: LoadedSuite, opts: RunOptions = {}): Promi
       shouldStop: () => stopReason !== null,
       onBlock: () => {
         progress.update();
+        opts.onBlockMerged?.(collector.blocks);
         if (opts.stopAfterBlocks !== undefined && collector.blocks.size >= opts.stopAfterBlocks) stopReason ??= "stop-after-blocks";
         // At most every few seconds, and never more than ~2% of the run's time in checkpoints.
         if (checkpoint && performance.now() - lastSave >= Math.max(every, 50 * lastSaveCost)) {

@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import { cauchyMeanPerimeter } from "../../src/theory/cauchy-quadrature.js";
 import { predict } from "../../src/theory/predict.js";
 import { requiredMeanAccuracy, runMeanTargets } from "../../src/run/accuracy.js";
+import { atLeastAsAccurate, earlyTargets, leadInBlocks, predictionTargets } from "../../src/run/early-prediction.js";
 import { evaluateChecks } from "../../src/verdict/checks.js";
 import { validateSuite } from "../../src/suite/load.js";
 import type { Mat2, Vec2 } from "../../src/suite/schema.js";
@@ -64,6 +65,22 @@ describe("targets from the run's own standard error", () => {
       expect(t).toBeGreaterThan(want / 2);
       expect(Math.log2(t)).toBe(Math.round(Math.log2(t)));
     });
+  });
+
+  it("predictions computed during the run: early targets from blocks 0..K-1, used only when at least as accurate as the final ones", () => {
+    expect(leadInBlocks(32)).toBe(8);
+    expect(leadInBlocks(256)).toBe(32);
+    expect(leadInBlocks(4)).toBe(4);
+    const early = earlyTargets(sim.suite, sim.blocks.filter((b) => b.block < leadInBlocks(32)));
+    const final = runMeanTargets(sim);
+    const chosen = predictionTargets(sim);
+    // Whichever is chosen, no target is looser than the final SE / 10 (rounded down).
+    expect(atLeastAsAccurate(chosen, final)).toBe(true);
+    expect(chosen).toEqual(atLeastAsAccurate(early, final) ? early : final);
+    // Here the lead-in's SE extrapolates well: the early targets (a power of 2 below) are chosen.
+    expect(chosen).toEqual(early);
+    expect(atLeastAsAccurate({ absolute: { perimeter: { "10": 1 } } }, { absolute: { perimeter: { "10": 0.5 } } })).toBe(false);
+    expect(atLeastAsAccurate({ absolute: {} }, { absolute: { perimeter: { "10": 0.5 } } })).toBe(false);
   });
 
   it("a predicted mean whose bound missed its target is shown, not gated", () => {
