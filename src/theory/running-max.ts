@@ -11,12 +11,12 @@
 // Richardson step is needed. Accuracy is certified per call against Spitzer's exact
 // E M_n = sum_{k<=n} E[S_k^+]/k (Spitzer, "A combinatorial lemma and its application to probability
 // theory", Trans. AMS 82 (1956)), see `spitzerMaxMean`.
-// Cost: O(n^{3/2} / h^2) flops (window of width ~18 sqrt(i) around the drift, band ~19/h nodes).
+// Cost: O(n^{3/2} / h^2) flops (window of width ~18 sqrt(i) around the drift, band ~17/h nodes).
 
 import { readFileSync } from "node:fs";
 import { INV_SQRT_2PI, normCdf, positivePartMean } from "./special.js";
 
-const TAIL = 9.5; // |x| beyond which phi(x) < 1e-19: kernel band half-width
+const TAIL = 8.5; // |x| beyond which phi(x) < 1.1e-16: kernel band half-width
 
 export interface RunningMaxLaw {
   /** Drift r of the unit-variance steps. */
