@@ -410,7 +410,8 @@ export async function main(argv: string[], early: EarlyWorkers | null = null): P
     }
   } catch (e) {
     if (e instanceof SuiteError || e instanceof UsageError) {
-      process.stderr.write(`walkhull: ${e.message}\n`);
+      // One line: messages quoting a parser's error (JSON, CSV) may carry line breaks.
+      process.stderr.write(`walkhull: ${e.message.replace(/\s*\n\s*/g, " ")}\n`);
       return EXIT_BAD_INPUT;
     }
     throw e;

@@ -248,7 +248,16 @@ export interface KsSeries {
 export function ksSeries(n: number[], columns: ArrayLike<number>[]): KsSeries {
   const pts = n.map((nn, g) => {
     const v = Float64Array.from(columns[g]).filter(Number.isFinite);
-    return { n: nn, distance: v.length >= 2 ? ksNormalDistance(v) : NaN, size: v.length };
+    // Fewer than 5 values or no spread: no distance (a gap in the plot, not an error).
+    let distance = NaN;
+    if (v.length >= 5) {
+      try {
+        distance = ksNormalDistance(v);
+      } catch {
+        distance = NaN;
+      }
+    }
+    return { n: nn, distance, size: v.length };
   });
   const m = Math.min(...pts.map((p) => p.size));
   const floor = 0.87 / Math.sqrt(Math.max(1, m));

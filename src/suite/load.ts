@@ -4,6 +4,7 @@
 import { createHash } from "node:crypto";
 import { readFileSync } from "node:fs";
 import { dirname, resolve } from "node:path";
+import { recordLayout } from "../engine/types.js";
 import {
   LAW_NAMES,
   MEASURES,
@@ -142,6 +143,7 @@ export function validateSuite(raw: unknown, opts: ValidateOptions = {}): LoadedS
     suite.normalityTolerance = asNumber(o.normalityTolerance, "normalityTolerance", { gt: 0, lt: 1 });
   }
   if (o.blocks !== undefined) suite.blocks = asInteger(o.blocks, "blocks", MIN_BLOCKS, 1 << 16);
+  checkBlockSums(suite);
   if (o.claims !== undefined) {
     if (!Array.isArray(o.claims)) throw new SuiteError("claims", "must be an array");
     suite.claims = o.claims.map((c, i) => validateClaim(c, `claims[${i}]`, suite));
@@ -149,6 +151,26 @@ export function validateSuite(raw: unknown, opts: ValidateOptions = {}): LoadedS
 
   const hash = createHash("sha256").update(canonicalJson(suite)).digest("hex");
   return { ...suite, path: opts.path ?? null, hash };
+}
+
+/**
+ * Largest number of co-moment sums a run keeps (blocks x width^2, width = grid points x measures):
+ * 2^23 doubles = 64 MiB, held in memory and written per block into the report.
+ */
+export const MAX_BLOCK_COMOMENTS = 2 ** 23;
+
+/** Refuses grids and block counts whose per-block co-moment matrices would not fit (field-named). */
+function checkBlockSums(suite: Suite): void {
+  const width = recordLayout(suite.n.length).width;
+  const blocks = blockCount(suite);
+  if (blocks * width * width <= MAX_BLOCK_COMOMENTS) return;
+  const maxGrid = Math.floor(Math.sqrt(MAX_BLOCK_COMOMENTS / blocks) / (width / suite.n.length));
+  const gridFits = Math.min(blocks, MIN_BLOCKS) * width * width <= MAX_BLOCK_COMOMENTS;
+  const what = `${suite.n.length} step counts (${width} numbers per path) with ${blocks} blocks keep ${blocks} co-moment matrices of ${width}^2 numbers, more than the limit of ${MAX_BLOCK_COMOMENTS}`;
+  if (suite.blocks !== undefined && gridFits) {
+    throw new SuiteError("blocks", `${what}: use at most ${Math.floor(MAX_BLOCK_COMOMENTS / (width * width))} blocks with this grid`);
+  }
+  throw new SuiteError("n", `${what}: use at most ${maxGrid} step counts`);
 }
 
 /** Number of blocks of a run: the suite's `blocks` (default 64), never more than the paths. */
@@ -178,7 +200,7 @@ function validateLaw(raw: unknown, at: string, baseDir: string): StepLaw {
     case "gaussian":
       return { law, mean: asVec2(o.mean, `${at}.mean`), cov: asPsd(o.cov, `${at}.cov`) };
     case "circle":
-      return { law, mean: asVec2(o.mean, `${at}.mean`), radius: asNumber(o.radius, `${at}.radius`, { gt: 0 }) };
+      return { law, mean: asVec2(o.mean, `${at}.mean`), radius: asNumber(o.radius, `${at}.radius`, { gt: 0, le: MAX_COORD }) };
     case "student": {
       const dof = asNumber(o.dof, `${at}.dof`, { gt: 2 });
       if (!Number.isFinite(dof)) throw new SuiteError(`${at}.dof`, "must be finite (use the gaussian law for dof = infinity)");
@@ -226,6 +248,7 @@ export function readStepsCsv(file: string, field: string): Vec2[] {
       throw new SuiteError(field, `${file} line ${i + 1}: expected two numbers, got ${JSON.stringify(t.slice(0, 60))}`);
     }
     if (cells.length !== 2) throw new SuiteError(field, `${file} line ${i + 1}: expected exactly two columns, got ${cells.length}`);
+    if (nums.some((x) => Math.abs(x) > MAX_COORD)) throw new SuiteError(field, `${file} line ${i + 1}: a step coordinate beyond +-${MAX_COORD}`);
     steps.push([nums[0], nums[1]]);
   });
   if (steps.length < 2) throw new SuiteError(field, `${file} holds ${steps.length} increment(s); at least 2 are needed`);
@@ -300,19 +323,25 @@ function asInteger(v: unknown, at: string, min: number, max: number): number {
   if (v > max) throw new SuiteError(at, `must be <= ${max} (got ${v}): too large for this tool`);
   return v;
 }
+/** Largest |coordinate| of a step law (means, atoms, radius, CSV steps): 1e12, so that positions
+ *  (n up to 2^31 steps) and hull areas stay finite and well inside double precision. Covariance and
+ *  scale entries: MAX_COORD^2. */
+export const MAX_COORD = 1e12;
+const COORD_BOUNDS = { ge: -MAX_COORD, le: MAX_COORD };
 function asVec2(v: unknown, at: string): Vec2 {
   if (!Array.isArray(v) || v.length !== 2) throw new SuiteError(at, "must be a pair [x, y]");
-  return [asNumber(v[0], `${at}[0]`, {}), asNumber(v[1], `${at}[1]`, {})];
+  return [asNumber(v[0], `${at}[0]`, COORD_BOUNDS), asNumber(v[1], `${at}[1]`, COORD_BOUNDS)];
 }
 function asPsd(v: unknown, at: string): Mat2 {
   if (!Array.isArray(v) || v.length !== 2 || !v.every((r) => Array.isArray(r) && r.length === 2)) {
     throw new SuiteError(at, "must be a 2x2 matrix [[a, b], [b, d]]");
   }
   const m = v as unknown[][];
-  const a = asNumber(m[0][0], `${at}[0][0]`, {});
-  const b = asNumber(m[0][1], `${at}[0][1]`, {});
-  const c = asNumber(m[1][0], `${at}[1][0]`, {});
-  const d = asNumber(m[1][1], `${at}[1][1]`, {});
+  const bounds = { ge: -MAX_COORD * MAX_COORD, le: MAX_COORD * MAX_COORD };
+  const a = asNumber(m[0][0], `${at}[0][0]`, bounds);
+  const b = asNumber(m[0][1], `${at}[0][1]`, bounds);
+  const c = asNumber(m[1][0], `${at}[1][0]`, bounds);
+  const d = asNumber(m[1][1], `${at}[1][1]`, bounds);
   const scale = Math.max(Math.abs(a), Math.abs(b), Math.abs(c), Math.abs(d));
   if (Math.abs(b - c) > 1e-12 * scale) throw new SuiteError(at, `must be symmetric (${b} != ${c})`);
   // Eigenvalues of a symmetric 2x2 matrix; PSD up to a relative rounding tolerance (common practice).

@@ -130,15 +130,32 @@ export function predict(suite: Suite, opts: PredictOptions = {}): Prediction {
         if (Object.keys(r.means).length) p.sources.push(...r.sources);
       } else if (k >= 2) {
         const gaussian = suite.walks.every((w) => w.law === "gaussian" && isContinuousLaw(w));
+        // The quadrature's grid for the running maximum grows like n |mu| / sigma_min: beyond this
+        // drift-to-noise ratio (at its timing probe, n <= 50) it would take minutes and gigabytes.
+        const ratio = Math.max(...suite.walks.map((w) => {
+          if (w.law !== "gaussian") return 0;
+          const [[a, b], [, d]] = w.cov;
+          const lambdaMin = (a + d) / 2 - Math.sqrt(((a - d) / 2) ** 2 + b * b);
+          return Math.hypot(w.mean[0], w.mean[1]) / Math.sqrt(Math.max(lambdaMin, 0));
+        }));
         if (!gaussian) {
           p.reasons.push("no exact mean perimeter for k >= 2 walks: the Cauchy quadrature is implemented for Gaussian steps with non-singular covariances");
+        } else if (!(Math.min(ns[0], 50) * ratio <= 1e4)) {
+          p.reasons.push(`no exact mean perimeter: drift-to-noise ratio ${ratio.toPrecision(3)} (|mu| / smallest step SD) is too large for the Cauchy quadrature's grid`);
         } else {
           // Heavy: run after the cheap predictions so it gets the rest of the budget.
           deferred.push(() => {
-            const r = cauchyMeanPerimeter(suite.walks.map((w) => w.law === "gaussian" ? { mean: w.mean, cov: w.cov } : null!), ns, {
-              budgetSeconds: remaining(),
-              tolerance: (n, estimate) => meanTarget(opts.meanTargets, "perimeter", n, estimate),
-            });
+            let r;
+            try {
+              r = cauchyMeanPerimeter(suite.walks.map((w) => w.law === "gaussian" ? { mean: w.mean, cov: w.cov } : null!), ns, {
+                budgetSeconds: remaining(),
+                tolerance: (n, estimate) => meanTarget(opts.meanTargets, "perimeter", n, estimate),
+              });
+            } catch (e) {
+              // Extreme drift-to-noise ratios or scales defeat the quadrature's grids: no prediction, said why.
+              p.reasons.push(`no exact mean perimeter: the Cauchy quadrature failed for these walks (${(e as Error).message})`);
+              return;
+            }
             Object.assign(p.exactMeans, r.means);
             Object.assign(p.exactMeansError, r.errors);
             p.reasons.push(...r.reasons);
