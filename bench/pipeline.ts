@@ -19,20 +19,14 @@ import { Bench } from "tinybench";
 import { compileWalks } from "../src/engine/compile.js";
 import { createTwinKernel, drawStepsInto, Rng, zigguratTables } from "../src/engine/twin.js";
 import type { KernelSetup } from "../src/engine/types.js";
-import { createWasmKernel, loadWasmModuleSync, type WalkhullExports } from "../src/engine/wasm.js";
+import type { instantiate as instantiateBench } from "../build/walkhull.bench.js";
+import { createWasmKernel, loadWasmModuleSync } from "../src/engine/wasm.js";
 import { runSuite } from "../src/run/run.js";
 import { validateSuite } from "../src/suite/load.js";
 import type { StepLaw } from "../src/suite/schema.js";
 
-/** Bench-only exports of assembly/bench.ts (build/walkhull.bench.wasm: per-stage entry points). */
-interface BenchExports extends WalkhullExports {
-  benchPaths(count: number, level: number): number;
-  benchSurvival(): number;
-  benchResetStats(): void;
-  /** Points dropped in whole chunks per new point since benchResetStats (bench build only). */
-  benchChunkDropped(): number;
-  benchUniforms(count: number): number;
-}
+/** Exports of assembly/bench.ts (build/walkhull.bench.wasm), typed from asc's declarations of that build. */
+type BenchExports = Awaited<ReturnType<typeof instantiateBench>>;
 
 const args = process.argv.slice(2);
 const smoke = args.includes("--smoke");

@@ -133,7 +133,7 @@ export function compileWalks(laws: readonly StepLaw[]): CompiledWalk[] {
     try {
       return compileWalk(law);
     } catch (err) {
-      throw new Error(`walks[${i}].${(err as Error).message}`);
+      throw new Error(`walks[${i}].${(err as Error).message}`, { cause: err });
     }
   });
 }

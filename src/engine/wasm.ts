@@ -6,6 +6,7 @@ import { readFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { fileURLToPath } from "node:url";
 import { CONTROLS_PER_WALK, recordLayout, type Kernel, type KernelSetup } from "./types.js";
+import type { instantiate } from "../../build/walkhull.js";
 import { zigguratTables } from "./prng.js";
 import { MEASURE_COUNT } from "../geometry/measure-registry.js";
 
@@ -38,29 +39,12 @@ export function loadWasmModuleSync(url: URL = WASM_URL): WebAssembly.Module {
   return new WebAssembly.Module(new Uint8Array(bytes));
 }
 
-/** The raw exports of assembly/index.ts (pointers are byte offsets into memory). */
-export interface WalkhullExports {
-  memory: WebAssembly.Memory;
-  allocF64(count: number): number;
-  allocI32(count: number): number;
-  setup(k: number, gridPtr: number, g: number): void;
-  setWalk(j: number, code: number, paramsPtr: number): void;
-  seedBlock(seed: bigint, block: bigint): void;
-  setDrift(j: number, mx: number, my: number): void;
-  runPaths(count: number, outPtr: number, ctlPtr: number): void;
-  pointsXPtr(): number;
-  pointsYPtr(): number;
-  hullXPtr(): number;
-  hullYPtr(): number;
-  getHullCount(): number;
-  drawSteps(j: number, count: number, sxPtr: number, syPtr: number, scratchPtr: number): void;
-  hullOfPoints(xsPtr: number, ysPtr: number, count: number, useFilter: number): number;
-  measureHull(outPtr: number): void;
-  fillNormals(outPtr: number, count: number): void;
-  fillNormalsPolar(outPtr: number, count: number): void;
-  nextSubstream(): void;
-  zigTable: WebAssembly.Global;
-}
+/**
+ * The raw exports of assembly/index.ts (pointers are byte offsets into memory), typed from the
+ * declarations asc generates beside the module (build/walkhull.d.ts): a changed kernel signature
+ * is a type error here, not a silent mismatch.
+ */
+export type WalkhullExports = Awaited<ReturnType<typeof instantiate>>;
 
 /** Paths simulated per runPaths call (the output buffer holds this many records). */
 const CHUNK_PATHS = 256;
@@ -198,7 +182,7 @@ export function createWasmKernel(module: WebAssembly.Module, setup: KernelSetup)
         H[inXPtr / 8 + i] = xs[i];
         H[inYPtr / 8 + i] = ys[i];
       }
-      const h = ex.hullOfPoints(inXPtr, inYPtr, count, useFilter ? 1 : 0);
+      const h = ex.hullOfPoints(inXPtr, inYPtr, count, useFilter);
       ex.measureHull(measPtr);
       const hull = readHull();
       const x = new Float64Array(h), y = new Float64Array(h);

@@ -23,7 +23,7 @@ export interface HtmlExtras {
 }
 
 
-const NUMERIC = /^[-+]?[0-9.,e±()\[\] %-]+$|^-$/i;
+const NUMERIC = /^[-+]?[0-9.,e±()[\] %-]+$|^-$/i;
 
 function htmlTable(t: Table, verdictColumn = -1): string {
   const head = `<tr>${t.header.map((h) => `<th>${esc(h)}</th>`).join("")}</tr>`;

@@ -13,7 +13,7 @@
 //   log d = a - r log n. The points share paths, so the slope's SE is indicative only.
 // - hull: the points of one sample path per walk and the hull of all of them.
 
-import type { KeptSample, ResultRecord } from "../run/types.js";
+import type { ResultRecord } from "../run/types.js";
 import { equalIntervalBreaks, extent, quantileSorted } from "simple-statistics";
 import { ksNormalDistance, meanSd } from "../stats/lilliefors.js";
 import { normalQuantile } from "../stats/normal.js";
@@ -311,8 +311,8 @@ export interface PathGeometry {
 export function hullSvg(g: PathGeometry, maxPerWalk = 3000): string {
   const xs: number[] = [];
   const ys: number[] = [];
-  for (const p of g.points) for (let i = 0; i < p.length; i += 2) (xs.push(p[i]), ys.push(p[i + 1]));
-  for (let i = 0; i < g.hull.length; i += 2) (xs.push(g.hull[i]), ys.push(g.hull[i + 1]));
+  for (const p of g.points) for (let i = 0; i < p.length; i += 2) { xs.push(p[i]); ys.push(p[i + 1]); }
+  for (let i = 0; i < g.hull.length; i += 2) { xs.push(g.hull[i]); ys.push(g.hull[i + 1]); }
   // Equal units on both axes; the frame's height follows the cloud's aspect ratio (a drifting
   // walk is a long thin needle) within [160, 560] pixels of plotting area.
   const xd = padDomain(xs);
@@ -328,13 +328,13 @@ export function hullSvg(g: PathGeometry, maxPerWalk = 3000): string {
     const stride = Math.max(1, Math.ceil(count / maxPerWalk));
     const wx: number[] = [];
     const wy: number[] = [];
-    for (let i = 0; i < count; i += stride) (wx.push(p[2 * i]), wy.push(p[2 * i + 1]));
-    if ((count - 1) % stride !== 0) (wx.push(p[2 * count - 2]), wy.push(p[2 * count - 1]));
+    for (let i = 0; i < count; i += stride) { wx.push(p[2 * i]); wy.push(p[2 * i + 1]); }
+    if ((count - 1) % stride !== 0) { wx.push(p[2 * count - 2]); wy.push(p[2 * count - 1]); }
     body.push(`<path class="walk walk${j % 6}" data-walk="${j}" d="${pathD(sc, wx, wy)}"/>`);
   });
   const hx: number[] = [];
   const hy: number[] = [];
-  for (let i = 0; i < g.hull.length; i += 2) (hx.push(g.hull[i]), hy.push(g.hull[i + 1]));
+  for (let i = 0; i < g.hull.length; i += 2) { hx.push(g.hull[i]); hy.push(g.hull[i + 1]); }
   if (hx.length) body.push(`<path class="hull" d="${pathD(sc, [...hx, hx[0]], [...hy, hy[0]])}Z"/>`);
   body.push(points(sc, hx.map((x, i) => ({ x, y: hy[i] })), "vertex", 2.5));
   body.push(`<rect class="origin" x="${(sc.sx(0) - 3).toFixed(2)}" y="${(sc.sy(0) - 3).toFixed(2)}" width="6" height="6"/>`);

@@ -300,7 +300,7 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
       throw new Error(`walks[${j}].cov: the k-walk Cauchy quadrature needs a non-singular covariance`);
     }
   });
-  let kept = [...ns].sort((a, b) => a - b);
+  const kept = [...ns].sort((a, b) => a - b);
   // Targets: from the caller, given int max_j E M_j(t) dt (a Riemann sum on 64 angles) as the estimate.
   const estimate = kept.map(() => 0);
   for (let i = 0; i < 64; i++) {
