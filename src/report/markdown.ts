@@ -46,7 +46,9 @@ function predictionTable(p: MeasurePrediction): Table {
   ];
   const exact = Object.keys(p.exactMeans ?? {});
   if (exact.length) {
-    rows.push(["exact means", exact.map((k) => `n = ${k}: ${num(p.exactMeans[k], 10)} ± ${num(p.exactMeansError?.[k], 2)}`).join("; ")]);
+    // The error bound beside each value, and the bound it had to reach (1/10 of the run's SE) when one was set.
+    const target = (k: string) => (p.exactMeansTarget?.[k] === undefined ? "" : ` (target ${num(p.exactMeansTarget[k], 2)}${p.exactMeansError[k] <= p.exactMeansTarget[k] ? "" : ", not reached: not gated"})`);
+    rows.push(["exact means", exact.map((k) => `n = ${k}: ${num(p.exactMeans[k], 10)} ± ${num(p.exactMeansError?.[k], 2)}${target(k)}`).join("; ")]);
   }
   if (p.varianceUncalibrated) rows.push(["variance checks", "uncalibrated (see reasons)"]);
   return { header: ["quantity", "value"], rows };
