@@ -135,7 +135,7 @@ describe("fuzz: the suite loader and the run stages, in process", () => {
         try {
           outcome = pipeline(suite);
         } catch (e) {
-          throw new Error(`${file} case ${i} (${did.join("; ")}): internal error ${(e as Error).stack}`);
+          throw new Error(`${file} case ${i} (${did.join("; ")}): internal error ${(e as Error).stack}`, { cause: e });
         }
         seen[outcome]++;
       }
