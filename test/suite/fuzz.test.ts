@@ -115,7 +115,7 @@ function pipeline(raw: Json): "valid" | "bad input" {
   if (small) {
     const sim = simulateInProcess(suite);
     const verdicts = evaluateChecks(sim, prediction);
-    const report = buildReport(sim, new Date(0), { predictions: prediction, checks: verdicts.checks, limits: verdicts.limits });
+    const report = buildReport(sim, new Date(0), { predictions: prediction, verdicts });
     renderMarkdown(report);
     renderHtml(report, { sample: sim.sample });
   }
