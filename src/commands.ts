@@ -14,7 +14,8 @@ import type { Prediction } from "./theory/types.js";
 import { evaluateChecks, renderChecks } from "./verdict/checks.js";
 import { runSuite } from "./run/run.js";
 import type { EarlyWorkers } from "./run/prestart.js";
-import { EarlyPrediction, predictionTargets } from "./run/early-prediction.js";
+import { EarlyPrediction, predictionTargets } from "./verdict/early-prediction.js";
+import { meanEstimates } from "./verdict/accuracy.js";
 import { CheckpointError, type PartSpec } from "./run/checkpoint.js";
 import { combinePartFiles, CombineError, partFile } from "./run/parts.js";
 import type { SimulationResult } from "./run/types.js";
@@ -148,7 +149,7 @@ interface FinishOptions {
   predictBudget: number;
   /** Read and write the prediction cache (not --no-cache). */
   cache: boolean;
-  /** Predictions already computed (run: overlapped with the simulation, src/run/early-prediction.ts). */
+  /** Predictions already computed (run: overlapped with the simulation, src/verdict/early-prediction.ts). */
   prediction?: Prediction;
   /** --report DIR, --junit FILE, --samples FILE */
   reportDir?: string;
@@ -182,7 +183,7 @@ function finish(sim: SimulationResult, opts: FinishOptions): number {
   const prediction = opts.withChecks
     ? opts.prediction ?? predictCached(suite, { budgetSeconds: opts.predictBudget, meanTargets: predictionTargets(sim) }, { use: opts.cache })
     : undefined;
-  const verdicts = prediction ? evaluateChecks(sim, prediction) : undefined;
+  const verdicts = prediction ? evaluateChecks(sim, prediction, { estimates: meanEstimates(sim) }) : undefined;
   const report = buildReport(sim, opts.startedAt, { predictions: prediction, verdicts });
   report.exitCode = verdicts && verdicts.failed > 0 ? EXIT_CHECK_FAILED : verdicts && (verdicts.undecidedClaims?.length ?? 0) > 0 ? EXIT_UNDECIDED : EXIT_OK;
   const scaling = (m: string) => prediction?.measures.find((p) => p.measure === m)?.varianceScaling ?? null;

@@ -1,5 +1,5 @@
 // A thread that computes a suite's predictions (through the cache) while the main thread does other
-// work (src/run/early-prediction.ts): one request, one answer, then it is ended.
+// work (src/verdict/early-prediction.ts): one request, one answer, then it is ended.
 import { parentPort } from "node:worker_threads";
 import { predictCached, type CacheOptions } from "./cache.js";
 import type { Suite } from "../suite/schema.js";

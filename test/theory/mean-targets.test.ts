@@ -1,8 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { cauchyMeanPerimeter } from "../../src/theory/cauchy-quadrature.js";
 import { predict } from "../../src/theory/predict.js";
-import { requiredMeanAccuracy, runMeanTargets } from "../../src/run/accuracy.js";
-import { atLeastAsAccurate, earlyTargets, leadInBlocks, predictionTargets } from "../../src/run/early-prediction.js";
+import { requiredMeanAccuracy, runMeanTargets } from "../../src/verdict/accuracy.js";
+import { atLeastAsAccurate, earlyTargets, leadInBlocks, predictionTargets } from "../../src/verdict/early-prediction.js";
 import { evaluateChecks } from "../../src/verdict/checks.js";
 import { validateSuite } from "../../src/suite/load.js";
 import type { Mat2, Vec2 } from "../../src/suite/schema.js";
@@ -10,6 +10,7 @@ import type { MeasurePrediction } from "../../src/theory/types.js";
 import { driftPerimeter, synthesise } from "../verdict/synthetic.js";
 import { mergeAll, summarize } from "../../src/stats/moments.js";
 import { measureBlocks } from "../../src/run/series.js";
+import { estimateMeasures } from "../../src/verdict/estimates.js";
 
 const walks: { mean: Vec2; cov: Mat2 }[] = [
   { mean: [1, 0], cov: [[1, 0], [0, 1]] },
@@ -54,12 +55,13 @@ describe("targets from the run's own standard error", () => {
   // The mean and SE the check reads: moments of all blocks at grid index g.
   const rowAt = (g: number) => summarize(mergeAll(measureBlocks(sim, "perimeter").map((b) => b[g])));
 
-  it("requiredMeanAccuracy is SE / 10 of the mean the check reads; runMeanTargets rounds it down to a power of 2", () => {
+  it("requiredMeanAccuracy is SE / 10 of the mean the check reads (the check's own SE); runMeanTargets rounds it down to a power of 2", () => {
     const targets = runMeanTargets(sim);
     grid.forEach((n, g) => {
-      const row = rowAt(g);
+      // The SE the mean check reads (control-variate when it uses one, verdict/estimates.ts).
+      const checked = estimateMeasures(sim).get("perimeter")!.points[g].meanSE;
       const want = requiredMeanAccuracy(sim, "perimeter", g);
-      expect(want).toBeCloseTo(row.meanSE / 10, 12);
+      expect(want).toBeCloseTo(checked / 10, 12);
       const t = targets.absolute!.perimeter![String(n)];
       expect(t).toBeLessThanOrEqual(want);
       expect(t).toBeGreaterThan(want / 2);

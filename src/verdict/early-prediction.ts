@@ -15,7 +15,7 @@ import type { MeanTargets, Prediction } from "../theory/types.js";
 import { blockCount, canonicalJson } from "../suite/load.js";
 import type { LoadedSuite } from "../suite/schema.js";
 import { requiredMeanAccuracy, runMeanTargets } from "./accuracy.js";
-import type { BlockStats, SimulationResult } from "./types.js";
+import type { BlockStats, SimulationResult } from "../run/types.js";
 
 const WORKER_URL = new URL("../../dist/theory/predict-worker.js", import.meta.url);
 
@@ -27,7 +27,7 @@ export function leadInBlocks(total: number): number {
 /** Early targets from the lead-in blocks: SE/10 extrapolated to all paths, rounded down to a power of 2, halved. */
 export function earlyTargets(suite: LoadedSuite, leadIn: BlockStats[]): MeanTargets {
   const paths = leadIn.reduce((s, b) => s + b.paths, 0);
-  const partial = { suite, blocks: leadIn } as unknown as SimulationResult;
+  const partial = { suite, blocks: leadIn, blockCount: leadIn.length } as unknown as SimulationResult;
   const absolute: NonNullable<MeanTargets["absolute"]> = {};
   for (const measure of suite.measure) {
     const byN: Record<string, number> = {};

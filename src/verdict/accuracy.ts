@@ -1,21 +1,31 @@
 // The accuracy a run asks of its finite-n mean predictions: 1/10 of the run's own standard error of
 // the simulated mean each one is checked against (then the numerical error adds at most
-// sqrt(1 + 0.01) - 1 = 0.5% to the check's standard deviation). One function of the simulation
-// result, so that a better standard error (e.g. control variates) tightens every target at once.
+// sqrt(1 + 0.01) - 1 = 0.5% to the check's standard deviation): the control-variate SE when the check
+// uses it (estimates.ts), else the plain one. One function of the simulation result.
 
 import { mergeAll, summarize } from "../stats/moments.js";
 import type { Measure } from "../suite/schema.js";
-import { measureBlocks } from "./series.js";
+import { measureBlocks } from "../run/series.js";
 import type { MeanTargets } from "../theory/types.js";
-import type { SimulationResult } from "./types.js";
+import type { SimulationResult } from "../run/types.js";
+import { estimateMeasures, type MeasureEstimates } from "./estimates.js";
+
+/** estimateMeasures(sim), computed once per result (pass it on to evaluateChecks' cache). */
+const memo = new WeakMap<object, Map<Measure, MeasureEstimates>>();
+export function meanEstimates(sim: SimulationResult): Map<Measure, MeasureEstimates> {
+  let e = memo.get(sim);
+  if (!e) { e = estimateMeasures(sim); memo.set(sim, e); }
+  return e;
+}
 
 /** Share of the standard error a prediction's error bound may take. */
 export const TARGET_SHARE_OF_SE = 0.1;
 
-/** The error bound the prediction of the mean of `measure` at grid index g must reach: SE / 10. */
+/** The error bound the prediction of the mean of `measure` at grid index g must reach: SE / 10 (the SE its check uses). */
 export function requiredMeanAccuracy(sim: SimulationResult, measure: Measure, g: number): number {
-  const s = summarize(mergeAll(measureBlocks(sim, measure).map((b) => b[g])));
-  return TARGET_SHARE_OF_SE * s.meanSE;
+  const point = meanEstimates(sim).get(measure)?.points[g];
+  const se = point ? point.meanSE : summarize(mergeAll(measureBlocks(sim, measure).map((b) => b[g]))).meanSE;
+  return TARGET_SHARE_OF_SE * se;
 }
 
 /**
