@@ -362,21 +362,24 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
   };
   const panels = initialPanels(kept[Q - 1]).map(([a, b]) => evaluate(a, b, FIRST_ORDER));
   const totals = () => {
-    const value = new Array<number>(Q).fill(0), error = new Array<number>(Q).fill(0);
+    const value = new Array<number>(Q).fill(0), error = new Array<number>(Q).fill(0), fixed = new Array<number>(Q).fill(0);
     for (const p of panels) {
       for (let q = 0; q < Q; q++) {
         value[q] += p.value[q];
         error[q] += p.quadError[q] + p.pointError[q];
+        fixed[q] += p.pointError[q];
       }
     }
     // Rounding in the sums (a generous 1e-15 relative per angle).
     for (let q = 0; q < Q; q++) error[q] += 1e-15 * Math.abs(value[q]) * seen.size;
-    return { value, error };
+    return { value, error, fixed };
   };
   let sum = totals();
   let capped = false;
   for (;;) {
-    const open = kept.map((_, q) => q).filter((q) => !(sum.error[q] <= targets[q]));
+    // Open: a target not met that refinement can still meet (the points' own errors, which do not
+    // shrink with more angles, are below it).
+    const open = kept.map((_, q) => q).filter((q) => !(sum.error[q] <= targets[q]) && sum.fixed[q] < 0.5 * targets[q]);
     if (open.length === 0) break;
     if (secondsSince(start) > budget || panels.length >= MAX_PANELS) { capped = true; break; }
     // Refine the panel with the largest quadrature error against the targets not yet met.
