@@ -1,9 +1,8 @@
 // The JSON report: the contract read by scripts (`results` rows, `checks`, ...). Add fields, never rename.
 
 import { createHash } from "node:crypto";
-import { readFileSync, renameSync, writeFileSync, mkdirSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import { cpus } from "node:os";
-import { dirname } from "node:path";
 import { execFileSync } from "node:child_process";
 import { PROJECT_ROOT, toolVersion } from "../version.js";
 import type { SimulationResult, BlockStats, ResultRecord } from "../run/types.js";
@@ -161,10 +160,3 @@ export function toJson(v: unknown): string {
   );
 }
 
-/** Write a file atomically: a temp file beside it, then rename (nothing half-written is left). */
-export function writeAtomic(path: string, text: string): void {
-  mkdirSync(dirname(path) || ".", { recursive: true });
-  const tmp = `${path}.tmp-${process.pid}`;
-  writeFileSync(tmp, text);
-  renameSync(tmp, path);
-}

@@ -1,7 +1,8 @@
 // Checkpoints: the blocks done and their partial results, written atomically (temp file + rename),
 // so a run can resume and end with the same bits as an uninterrupted one.
 
-import { existsSync, readFileSync, renameSync, writeFileSync } from "node:fs";
+import { existsSync, readFileSync } from "node:fs";
+import { writeAtomic } from "../io/write-atomic.js";
 import type { LoadedSuite } from "../suite/schema.js";
 import { recordLayout } from "../engine/types.js";
 import { runStateFromJson, runStateToJson, type RunState, type RunStateJson } from "./state.js";
@@ -46,9 +47,7 @@ export function writeCheckpoint(
     ...runStateToJson(state),
     writtenAt: new Date().toISOString(),
   };
-  const tmp = `${path}.tmp-${process.pid}`;
-  writeFileSync(tmp, JSON.stringify(j));
-  renameSync(tmp, path);
+  writeAtomic(path, JSON.stringify(j));
 }
 
 /** Read a checkpoint and refuse it unless it belongs to this suite, seed, version and part. */

@@ -237,22 +237,6 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
   };
 }
 
-/**
- * Profile-likelihood-ratio test of s2 = value in the model with beta profiled over
- * [betaMin, betaMax]: statistic chi2_prof(value) - chi2_min, p-value from chi-square(1)
- * (Wilks; the test that inverts to the interval of fitPowerLawProfile).
- */
-export function profileTest(n: ArrayLike<number>, y: ArrayLike<number>, cov: ArrayLike<number>, value: number, opts: PowerLawOptions = {}): { statistic: number; pValue: number } {
-  const m = validate(n, y, cov);
-  const betaMin = opts.betaMin ?? 0.1;
-  const betaMax = opts.betaMax ?? 2;
-  const w = weightMatrix(cov, m, opts.blocks);
-  const chi2Min = minimise1d((b) => chi2At(n, y, w, b).chi2, betaMin, betaMax).fx;
-  const at = minimise1d((b) => chi2At(n, y, w, b, value).chi2, betaMin, betaMax).fx;
-  const statistic = Math.max(0, at - chi2Min);
-  return { statistic, pValue: chiSquareSf(statistic, 1) };
-}
-
 /** Fits y = s2 + c n^-beta with beta fixed (an assumption). Needs m >= 2 points. */
 export function fitPowerLawFixed(n: ArrayLike<number>, y: ArrayLike<number>, cov: ArrayLike<number>, beta: number, opts: PowerLawOptions = {}): PowerLawFit {
   const m = validate(n, y, cov);

@@ -101,25 +101,3 @@ export function jackknifeFromReplicates(
   }
   return { biasCorrected, covariance };
 }
-
-/**
- * Jackknife variance ("Delete-m jackknife for unequal m", 1999, as above) of the scalar f(theta), with f evaluated on the
- * full statistic and on every delete-one-block statistic of `jk`. NaN when f is not finite on one
- * of them (the caller decides what an unknown variance means).
- */
-export function jackknifeVariance(jk: JackknifeResult, f: (theta: Float64Array) => number): number {
-  const g = jk.blocks;
-  const total = jk.sizes.reduce((a, b) => a + b, 0);
-  const full = f(jk.estimate);
-  const loo = jk.leaveOut.map((t) => f(t));
-  if (!Number.isFinite(full) || !loo.every(Number.isFinite)) return NaN;
-  let thetaJ = g * full;
-  for (let j = 0; j < g; j++) thetaJ -= (1 - jk.sizes[j] / total) * loo[j];
-  let v = 0;
-  for (let j = 0; j < g; j++) {
-    const h = total / jk.sizes[j];
-    const dev = h * full - (h - 1) * loo[j] - thetaJ;
-    v += (dev * dev) / (h - 1);
-  }
-  return v / g;
-}

@@ -13,7 +13,8 @@
 // Cost with drift: O(n^2 N) multiply-adds (a matrix product), N ~ 64 + 16 sqrt(n) |m| / sqrt(lambda_min).
 
 import type { Mat2, Vec2 } from "../suite/schema.js";
-import { foldedNormalMean, KahanSum, normCdf, secondsSince } from "./special.js";
+import { foldedNormalMean, KahanSum, secondsSince } from "./special.js";
+import { normalCdf } from "../stats/normal.js";
 
 export const BNB_SOURCE =
   "Barndorff-Nielsen-Baxter formula (Combinatorial lemmas in higher dimensions, Trans. AMS 108 (1963); docs/theory.md sec. 3): E A_n = (1/2) sum_{a+b<=n} E|det(S_a,S'_b)|/(ab)";
@@ -76,7 +77,7 @@ export function gaussianAreaMeans(mean: Vec2, cov: Mat2, ns: number[], budgetSec
       const A = eCe / k, B = eCm, Cq = k * mCm;
       const mu0 = B / A, tau = 1 / Math.sqrt(A), z = mu0 / tau;
       const radial = Math.sqrt(2 * Math.PI) * tau *
-        ((mu0 * mu0 + tau * tau) * normCdf(z) + mu0 * tau * Math.exp(-0.5 * z * z) / Math.sqrt(2 * Math.PI));
+        ((mu0 * mu0 + tau * tau) * normalCdf(z) + mu0 * tau * Math.exp(-0.5 * z * z) / Math.sqrt(2 * Math.PI));
       R[k * N + i] = (radial * Math.exp(-0.5 * (Cq - (B * B) / A))) / (2 * Math.PI * k * Math.sqrt(det));
     }
   }

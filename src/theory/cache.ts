@@ -9,7 +9,8 @@
 // cannot be written is skipped silently (the run does not depend on it).
 
 import { createHash } from "node:crypto";
-import { mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
+import { mkdirSync, readFileSync } from "node:fs";
+import { writeAtomic } from "../io/write-atomic.js";
 import { homedir } from "node:os";
 import { isAbsolute, join } from "node:path";
 import { canonicalJson } from "../suite/load.js";
@@ -84,13 +85,11 @@ function readEntry(file: string, key: string, version: string): Prediction | nul
 }
 
 function writeEntry(dir: string, file: string, entry: Entry): void {
-  const tmp = `${file}.${process.pid}.${Date.now()}.tmp`;
   try {
     mkdirSync(dir, { recursive: true });
-    writeFileSync(tmp, JSON.stringify(entry) + "\n");
-    renameSync(tmp, file);
+    writeAtomic(file, JSON.stringify(entry) + "\n");
   } catch {
-    rmSync(tmp, { force: true });
+    // A cache that cannot be written only costs the next run a recomputation.
   }
 }
 

@@ -68,14 +68,6 @@ export function driftPolygon(drifts: Vec2[], tol: number): DriftPolygon {
   return { hull, points, perimeter, area, scale, collinear: hull.length < 3 };
 }
 
-/** Perimeter of conv{0, x_1..x_k} (for finite-difference checks of the gradients). */
-export function hullPerimeter(drifts: Vec2[]): number {
-  return driftPolygon(drifts, 1e-14).perimeter;
-}
-export function hullArea(drifts: Vec2[]): number {
-  return driftPolygon(drifts, 1e-14).area;
-}
-
 /** Location of the point `q` relative to the convex polygon with ccw vertex list `poly`. */
 export function locate(poly: Vec2[], q: Vec2, tol: number): "interior" | "vertex" | "edge" | "outside" {
   const scale = Math.max(1e-300, ...poly.map((p) => Math.hypot(p[0], p[1])));

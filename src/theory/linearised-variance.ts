@@ -88,12 +88,6 @@ export function linearisedVariance(P: DriftPolygon, grads: Map<number, Vec2>, co
   return { sigma2, perWalk };
 }
 
-export function perimeterVariance(drifts: Vec2[], covs: Mat2[], tol = 1e-9) {
-  const P = driftPolygon(drifts, tol);
-  const grads = perimeterGradients(P);
-  return { P, ...linearisedVariance(P, grads, covs, tol), meanGrowth: P.perimeter };
-}
-
 export interface FarthestPair {
   a: number;
   b: number;

@@ -14,7 +14,8 @@
 // Cost: O(n^{3/2} / h^2) flops (window of width ~18 sqrt(i) around the drift, band ~17/h nodes).
 
 import { readFileSync } from "node:fs";
-import { INV_SQRT_2PI, normCdf, positivePartMean } from "./special.js";
+import { INV_SQRT_2PI, positivePartMean } from "./special.js";
+import { normalCdf } from "../stats/normal.js";
 
 const TAIL = 8.5; // |x| beyond which phi(x) < 1.1e-16: kernel band half-width
 
@@ -80,7 +81,7 @@ export function runningMaxLaw(r: number, ns: number[], opts: GridOptions = {}): 
   // Mass of the kernel on the (virtual) nodes past the grid end, where u = 1.
   const zEnd = z[N - 1] + h / 2;
   const beyond = new Float64Array(N);
-  for (let a = 0; a < N; a++) beyond[a] = normCdf(z[a] - r - zEnd);
+  for (let a = 0; a < N; a++) beyond[a] = normalCdf(z[a] - r - zEnd);
   const band: Band = { N, r, z, K, off, bLo, bHi, beyond };
   const wasm = opts.engine === "js" ? null : lindleyModule();
   const saved = wasm ? stepsWasm(wasm, band, ns) : stepsJs(band, ns, firstAtLeast);
@@ -95,7 +96,7 @@ export function runningMaxLaw(r: number, ns: number[], opts: GridOptions = {}): 
       const d = y - z[b] - r;
       s += w[b] * u[b] * INV_SQRT_2PI * Math.exp(-0.5 * d * d);
     }
-    if (b1 === N) s += normCdf(y - r - zEnd);
+    if (b1 === N) s += normalCdf(y - r - zEnd);
     return s > 1 ? 1 : s;
   };
   const support = (idx: number): [number, number] => {

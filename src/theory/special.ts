@@ -2,17 +2,13 @@
 
 import erfImpl from "@stdlib/math-base-special-erf";
 import erfcImpl from "@stdlib/math-base-special-erfc";
+import { normalCdf } from "../stats/normal.js";
 
 export const erf: (x: number) => number = erfImpl;
 export const erfc: (x: number) => number = erfcImpl;
 export const SQRT2 = Math.SQRT2;
 export const SQRT_2_OVER_PI = Math.sqrt(2 / Math.PI);
 export const INV_SQRT_2PI = 1 / Math.sqrt(2 * Math.PI);
-
-/** Standard normal cdf, accurate in both tails. */
-export function normCdf(x: number): number {
-  return 0.5 * erfc(-x / SQRT2);
-}
 
 /** E|Y| for Y ~ N(mu, sigma^2) (folded normal mean; common practice). */
 export function foldedNormalMean(mu: number, sigma: number): number {
@@ -24,7 +20,7 @@ export function foldedNormalMean(mu: number, sigma: number): number {
 export function positivePartMean(mu: number, sigma: number): number {
   if (sigma <= 0) return Math.max(mu, 0);
   const z = mu / sigma;
-  return sigma * INV_SQRT_2PI * Math.exp(-0.5 * z * z) + mu * normCdf(z);
+  return sigma * INV_SQRT_2PI * Math.exp(-0.5 * z * z) + mu * normalCdf(z);
 }
 
 /** Compensated (Neumaier) summation. */

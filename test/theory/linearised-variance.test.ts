@@ -1,9 +1,18 @@
 import { describe, expect, it } from "vitest";
 import seedrandom from "seedrandom";
-import { driftPolygon, hullArea, hullPerimeter } from "../../src/theory/geometry.js";
-import { areaGradients, diameterVariance, perimeterGradients, perimeterVariance, walksAt } from "../../src/theory/linearised-variance.js";
+import { driftPolygon } from "../../src/theory/geometry.js";
+import { areaGradients, diameterVariance, linearisedVariance, perimeterGradients, walksAt } from "../../src/theory/linearised-variance.js";
 import { stepMoments } from "../../src/theory/predict.js";
 import type { Mat2, StepLaw, Vec2 } from "../../src/suite/schema.js";
+
+/** The perimeter's linearised variance as src/theory/diagnose.ts composes it. */
+function perimeterVariance(drifts: Vec2[], covs: Mat2[], tol = 1e-9) {
+  const P = driftPolygon(drifts, tol);
+  return { ...linearisedVariance(P, perimeterGradients(P), covs, tol), meanGrowth: P.perimeter };
+}
+/** Perimeter and area of conv{0, x_1..x_k}, for the finite differences of the gradients. */
+const hullPerimeter = (drifts: Vec2[]): number => driftPolygon(drifts, 1e-14).perimeter;
+const hullArea = (drifts: Vec2[]): number => driftPolygon(drifts, 1e-14).area;
 
 /** E[((Z - mu).mu_hat)^2] computed directly from the law (the test's own computation). */
 function alongDriftVariance(law: StepLaw): number {
