@@ -380,7 +380,7 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
   for (;;) {
     // Open: a target not met that refinement can still meet (the points' own errors, which do not
     // shrink with more angles, are below it).
-    const open = kept.map((_, q) => q).filter((q) => !(sum.error[q] <= targets[q]) && sum.fixed[q] < 0.5 * targets[q]);
+    const open = kept.map((_, q) => q).filter((q) => !(sum.error[q] <= targets[q]) && sum.fixed[q] < targets[q]);
     if (open.length === 0) break;
     if (secondsSince(start) > budget || panels.length >= MAX_PANELS) { capped = true; break; }
     // Refine the panel with the largest quadrature error against the targets not yet met.
