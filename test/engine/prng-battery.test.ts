@@ -12,7 +12,6 @@
 
 import { describe, expect, it } from "vitest";
 import { spawnSync } from "node:child_process";
-import { join } from "node:path";
 import { Rng } from "../../src/engine/prng.js";
 import { chiSquareSf } from "../../src/stats/chisquare.js";
 import { fillInterleaved, interleavedStreams } from "../../scripts/prng-stream.js";
