@@ -22,8 +22,8 @@ import type { SimulationResult } from "./run/types.js";
 import { toolVersion } from "./version.js";
 import { buildReport, toJson } from "./report/json.js";
 import { writeAtomic } from "./io/write-atomic.js";
-import { resultsTable } from "./report/table.js";
-import { renderMarkdown } from "./report/markdown.js";
+import { resultsTable, textTable } from "./report/table.js";
+import { controlVariateTable, renderMarkdown } from "./report/markdown.js";
 import { renderHtml, type HtmlExtras } from "./report/html.js";
 import { renderJunit, reportJunit } from "./report/junit.js";
 import { DEFAULT_DIFF_ALPHA, DiffInputError, diffCases, diffReports, readDiffInput, renderDiff } from "./report/diff.js";
@@ -194,7 +194,14 @@ function finish(sim: SimulationResult, opts: FinishOptions): number {
     "",
     resultsTable(sim.results, scaling),
   ];
+  if (verdicts?.estimates?.length) {
+    const cv = controlVariateTable(verdicts.estimates);
+    lines.push("", "Control variates (the walks' centred endpoints and integrated paths; * = the estimate used; reduction = plain SE^2 / CV SE^2)", textTable(cv.header, cv.rows));
+  }
   if (verdicts) lines.push("", renderChecks(verdicts));
+  const undecided = verdicts?.undecidedClaims ?? [];
+  if (verdicts && verdicts.failed === 0 && undecided.length)
+    lines.push("", `Undecided claims (exit ${EXIT_UNDECIDED}): ${undecided.map((u) => `${u.id}: ${u.pathsToDecide ? `about ${u.pathsToDecide} paths would decide` : "more paths cannot decide (see its detail)"}`).join("; ")}`);
   if (opts.out) writeAtomic(opts.out, toJson(report));
   if (opts.reportDir) {
     writeAtomic(join(opts.reportDir, "report.json"), toJson(report));

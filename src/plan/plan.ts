@@ -8,7 +8,8 @@
 // N = 1 + 2 sigma^4 / SE^2 paths.
 // Detection: a relative error REL in sigma^2 is found at two-sided level alpha with power 1 - beta
 // when (z_{1-alpha/2} + z_{1-beta}) SE_N <= REL sigma^2 (the usual normal-approximation sample
-// size for a z-test; common practice).
+// size for a z-test; common practice). For the extrapolated LIMIT (what a claim is checked
+// against) the plan uses the total error of the verdicts instead: see detectionPlan.
 
 import { normalQuantile } from "../stats/normal.js";
 import { mergeAll } from "../stats/moments.js";
@@ -18,6 +19,7 @@ import { simulateInProcess } from "../run/simulate.js";
 import type { LoadedSuite, Measure } from "../suite/schema.js";
 import { predict } from "../theory/predict.js";
 import { extrapolate, plainRatios } from "../verdict/extrapolate.js";
+import { estimateMeasures, scaledSeries, type MeasureEstimates } from "../verdict/estimates.js";
 
 /** Default power of the detection plan. */
 export const DEFAULT_POWER = 0.9;
@@ -103,6 +105,62 @@ export interface MeasurePlan {
   limitPaths: number | null;
   limitSeconds: number | null;
   note: string;
+  /**
+   * With --detect: the plan from the TOTAL error of the extrapolated limit as the verdicts compute
+   * it (control-variate estimates, statistical SE scaling like 1/sqrt(paths), the model systematic
+   * not shrinking), at the Holm threshold of the suite's claim family; `paths` null when the
+   * systematic alone is too wide. Then limitPaths = detection.paths.
+   */
+  detection?: {
+    paths: number | null;
+    sigma2: number;
+    seStatPilot: number;
+    systematic: number;
+    familySize: number;
+    zFail: number;
+    zPower: number;
+    note: string;
+  } | null;
+}
+
+/**
+ * Paths to detect a relative error `rel` in the extrapolated sigma^2 = lim Var/n^p with power
+ * `power`: the claim fails when |estimate - claim| > zFail sqrt(se^2 + syst^2), zFail =
+ * z_{1 - alpha/(2m)} (Holm's first step over a family of m, the worst case), so the plan needs
+ * (zFail + zPower) sqrt(se_pilot^2 N0/N + syst^2) <= rel sigma^2 (normal-approximation sample size;
+ * common practice).
+ */
+function detectionPlan(suite: LoadedSuite, measure: Measure, p: number, estimates: Map<Measure, MeasureEstimates>, rel: number, alpha: number, power: number, familySize: number, pilotPaths: number): NonNullable<MeasurePlan["detection"]> {
+  const zFail = normalQuantile(1 - alpha / (2 * familySize));
+  const zPower = normalQuantile(power);
+  const empty = { sigma2: NaN, seStatPilot: NaN, systematic: NaN, familySize, zFail, zPower };
+  const est = estimates.get(measure);
+  if (!est) return { ...empty, paths: null, note: "the pilot has no control-variate estimates: no detection plan" };
+  let ex;
+  try {
+    ex = extrapolate({ measure, quantity: "varianceLimit", scaling: p, n: suite.n, ...scaledSeries(est, "variance", p, suite.n), blocks: est.sizes.length, expectedRate: suite.expectedRate ?? 0.5 });
+  } catch (e) {
+    return { ...empty, paths: null, note: `the pilot cannot extrapolate (${(e as Error).message}): no detection plan` };
+  }
+  const L = ex.limit;
+  const st = L.statisticalCi ?? L.ci;
+  if (L.method === "none" || !st || L.systematic === null || L.systematic === undefined || !ex.testable) {
+    return { ...empty, paths: null, note: `the pilot's limit is not testable on this grid (${ex.undecidable ?? L.note}): no detection plan` };
+  }
+  const zl = normalQuantile(1 - (1 - L.level) / 2);
+  const seStat = Math.max(L.estimate - st[0], st[1] - L.estimate) / zl;
+  const syst = L.systematic;
+  const target = (rel * Math.abs(L.estimate)) / (zFail + zPower);
+  const base = { sigma2: L.estimate, seStatPilot: seStat, systematic: syst, familySize, zFail, zPower };
+  if (!(target > syst)) {
+    return { ...base, paths: null, note: `no number of paths detects ${rel} on this grid: the model systematic se_syst = ${syst.toPrecision(3)} (pilot) exceeds the needed total error ${target.toPrecision(3)}; a grid reaching larger n would` };
+  }
+  const paths = Math.max(pilotPaths, Math.ceil((pilotPaths * seStat * seStat) / (target * target - syst * syst)));
+  return {
+    ...base, paths,
+    note: `detection plan from the pilot's extrapolated limit ${L.estimate.toPrecision(5)} (control variates): se_stat ${seStat.toPrecision(3)} at ${pilotPaths} paths, se_syst ${syst.toPrecision(3)}, ` +
+      `Holm threshold z = ${zFail.toFixed(2)} over ${familySize} claim(s) + power z = ${zPower.toFixed(2)}: needs total error <= ${target.toPrecision(3)}`,
+  };
 }
 
 export interface SuitePlan {
@@ -169,6 +227,10 @@ export function planSuite(suite: LoadedSuite, opts: PlanOptions): SuitePlan {
   }
   const G = suite.n.length;
   const nMax = suite.n[G - 1];
+  // The detection plan reads the pilot the way the verdicts will read the run: control-variate
+  // estimates, the same extrapolation, its statistical and systematic errors.
+  const estimates = opts.goal.kind === "detect" ? estimateMeasures(sim) : null;
+  const familySize = Math.max(1, (suite.claims ?? []).filter((c) => c.varianceLimit !== undefined || c.meanGrowth !== undefined || c.mean !== undefined).length);
   const measures = suite.measure.map((measure): MeasurePlan => {
     const series = measureBlocks(sim, measure);
     const p = scalings.get(measure) ?? 1;
@@ -199,10 +261,16 @@ export function planSuite(suite: LoadedSuite, opts: PlanOptions): SuitePlan {
     } catch (e) {
       note = `pilot extrapolation failed (${(e as Error).message}): the limit's extra SE is not included`;
     }
-    const limitPaths = inflation === null ? null : Math.ceil(paths * Math.max(1, inflation) ** 2);
+    let limitPaths = inflation === null ? null : Math.ceil(paths * Math.max(1, inflation) ** 2);
+    let detection: MeasurePlan["detection"] = null;
+    if (opts.goal.kind === "detect") {
+      detection = detectionPlan(suite, measure, p, estimates!, opts.goal.rel, alpha, power, familySize, pilotPaths);
+      limitPaths = detection.paths;
+      note = detection.note;
+    }
     return {
       ...base, targetSE, paths, seconds, inflation, limitPaths,
-      limitSeconds: limitPaths === null ? null : (limitPaths * secondsPerPath) / workers, note,
+      limitSeconds: limitPaths === null ? null : (limitPaths * secondsPerPath) / workers, note, detection,
     };
   });
   return { title: suite.title, goal: opts.goal, alpha, power, workers, pilotPaths, secondsPerPath, measures };
@@ -242,6 +310,12 @@ export function renderPlan(plan: SuitePlan): string {
     "limit n -> infinity usually has a larger SE: the inflation column is SE(limit)/SE(largest n) from the",
     "pilot's own extrapolation (itself noisy at pilot size); 'paths for the limit' = paths x max(1, inflation)^2.",
   );
+  if (plan.goal.kind === "detect")
+    lines.push(
+      "With --detect, 'paths for the limit' is the detection plan: the pilot read as the verdicts read a run",
+      "(control variates, the extrapolated limit's statistical SE shrinking like 1/sqrt(paths), its model",
+      "systematic not shrinking, the Holm threshold of the suite's claim family, the stated power).",
+    );
   for (const m of plan.measures) lines.push(`- ${m.measure}: ${m.note}`);
   return lines.join("\n");
 }

@@ -8,7 +8,7 @@ import type { Measure } from "../suite/schema.js";
 import type { KeptSample } from "../run/types.js";
 import type { LimitEstimate } from "../verdict/types.js";
 import type { Report } from "./json.js";
-import { reportSections, type Table } from "./markdown.js";
+import { CONTROL_VARIATE_NOTE, reportSections, type Table } from "./markdown.js";
 import { histogramData, histogramSvg, hullSvg, ksSeries, ksSvg, qqData, qqSvg, varianceRatioSvg, varianceSeries, type PathGeometry } from "./plots.js";
 import { reportCss, VERDICT_MARK, type VerdictWord } from "./palette.js";
 import { escapeXml as esc } from "./svg.js";
@@ -114,6 +114,7 @@ export function renderHtml(r: Report, extras: HtmlExtras = {}): string {
   if (s.limits.rows.length) out.push(htmlTable(s.limits), `<ul class="details">${s.limitNotes.map((x) => `<li>${esc(x)}</li>`).join("")}</ul>`);
   else out.push(`<p class="note">No limits were estimated.</p>`);
   out.push(`<h2>Results</h2>`, htmlTable(s.results));
+  if (s.controlVariates.rows.length) out.push(`<h2>Control variates</h2>`, `<p class="note">${esc(CONTROL_VARIATE_NOTE)}</p>`, htmlTable(s.controlVariates));
   out.push(`<h2>Covariance between measures</h2>`);
   if (!s.covariance.length) out.push(`<p class="note">Not available.</p>`);
   for (const c of s.covariance) out.push(`<h3>n = ${c.n}</h3><div class="plots"><div><p>Covariance</p>${htmlTable(c.covariance)}</div><div><p>Correlation</p>${htmlTable(c.correlation)}</div></div>`);

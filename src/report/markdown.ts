@@ -4,6 +4,7 @@
 
 import type { Report } from "./json.js";
 import type { Check, LimitEstimate } from "../verdict/types.js";
+import type { PointEstimate } from "../verdict/estimates.js";
 import type { MeasurePrediction } from "../theory/types.js";
 import { sig } from "./table.js";
 
@@ -24,6 +25,11 @@ export interface Table {
   rows: string[][];
 }
 
+export const CONTROL_VARIATE_NOTE =
+  "Estimates regressed on the walks' centred endpoints and integrated paths (mean 0, known covariance): " +
+  "\"reduction\" = plain SE^2 / control-variate SE^2 (jackknife SEs, the regression refitted in every replicate); " +
+  "the control-variate estimate (*) is used where it lowers the SE, else the plain one (\"-\" in the CV columns).";
+
 export interface Sections {
   title: string;
   summary: string;
@@ -33,9 +39,27 @@ export interface Sections {
   limits: Table;
   limitNotes: string[];
   results: Table;
+  /** Plain and control-variate estimates side by side (empty when the report has none). */
+  controlVariates: Table;
   covariance: { n: number; covariance: Table; correlation: Table }[];
   provenance: Table;
   caveats: string[];
+}
+
+/**
+ * Plain and control-variate estimates side by side: the estimate used (marked *) and both jackknife
+ * SEs, with the variance-reduction factor plain SE^2 / control-variate SE^2.
+ */
+export function controlVariateTable(rows: PointEstimate[]): Table {
+  const mark = (uses: boolean) => (uses ? "*" : "");
+  return {
+    header: ["measure", "n", "controls", "mean (CV)", "SE (CV)", "mean (plain)", "SE (plain)", "reduction", "variance (CV)", "SE (CV)", "variance (plain)", "SE (plain)", "reduction"],
+    rows: rows.map((e) => [
+      e.measure, String(e.n), String(e.controls),
+      `${sig(e.meanUsesControls ? e.mean : NaN, 8)}${mark(e.meanUsesControls)}`, sig(e.meanUsesControls ? e.meanSE : NaN, 3), sig(e.meanPlain, 8), sig(e.meanPlainSE, 3), sig(e.meanReduction, 3),
+      `${sig(e.varianceUsesControls ? e.variance : NaN, 6)}${mark(e.varianceUsesControls)}`, sig(e.varianceUsesControls ? e.varianceSE : NaN, 3), sig(e.variancePlain, 6), sig(e.variancePlainSE, 3), sig(e.varianceReduction, 3),
+    ]),
+  };
 }
 
 function predictionTable(p: MeasurePrediction): Table {
@@ -64,8 +88,12 @@ export function reportSections(r: Report): Sections {
     .filter(([, k]) => k > 0)
     .map(([v, k]) => `${k} ${v}`)
     .join(", ");
+  const undecided = r.verdictSummary?.undecidedClaims ?? [];
+  const undecidedText = undecided.length
+    ? ` Undecided claims: ${undecided.map((u) => `${u.id} (${u.pathsToDecide ? `about ${u.pathsToDecide} paths would decide` : "more paths cannot decide; see its detail"})`).join("; ")}.`
+    : "";
   const summary = r.checks
-    ? `${failed === 0 ? "No check failed" : `${failed} check(s) FAILED`}: ${checks.length} checks (${counts || "none"}); exit code ${r.exitCode ?? (failed ? 1 : 0)}. ${paths} paths, seed ${r.seed}, n = ${r.suite.n.join(", ")}.`
+    ? `${failed === 0 ? "No check failed" : `${failed} check(s) FAILED`}: ${checks.length} checks (${counts || "none"}); exit code ${r.exitCode ?? (failed ? 1 : 0)}. ${paths} paths, seed ${r.seed}, n = ${r.suite.n.join(", ")}.${undecidedText}`
     : `Moments only (no checks were run). ${paths} paths, seed ${r.seed}, n = ${r.suite.n.join(", ")}.`;
   const measures = r.suite.measure;
   const covariance = r.covariance.map((c) => {
@@ -108,6 +136,7 @@ export function reportSections(r: Report): Sections {
       header: ["measure", "n", "paths", "mean", "± SE", "variance", "± SE", "skewness", "ex. kurtosis", "min", "max"],
       rows: r.results.map((x) => [x.measure, String(x.n), String(x.paths), sig(x.mean, 8), sig(x.meanSE, 3), sig(x.variance, 6), sig(x.varianceSE, 3), sig(x.skewness, 3), sig(x.excessKurtosis, 3), sig(x.min, 6), sig(x.max, 6)]),
     },
+    controlVariates: controlVariateTable(r.controlVariates ?? []),
     covariance,
     provenance: {
       header: ["field", "value"],
@@ -156,6 +185,9 @@ export function renderMarkdown(r: Report): string {
   if (s.limits.rows.length) out.push(markdownTable(s.limits), "", ...s.limitNotes.map((x) => `- ${x}`));
   else out.push("No limits were estimated.");
   out.push("", "## Results", "", markdownTable(s.results), "");
+  if (s.controlVariates.rows.length) {
+    out.push("## Control variates", "", CONTROL_VARIATE_NOTE, "", markdownTable(s.controlVariates), "");
+  }
   out.push("## Covariance between measures", "");
   if (!s.covariance.length) out.push("Not available.");
   for (const c of s.covariance) out.push(`### n = ${c.n}`, "", "Covariance:", "", markdownTable(c.covariance), "", "Correlation:", "", markdownTable(c.correlation), "");

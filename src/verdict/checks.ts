@@ -38,7 +38,7 @@ interface Pending {
   otherwise: Verdict;
   family: Family;
   /** For constants: the value, tolerance, decision interval and what decides it (set when gated). */
-  constant?: { value: number; tolerance: number; interval: [number, number]; seStat: number; seSyst: number; paths: number; estimate: number };
+  constant?: { value: number; tolerance: number; interval: [number, number]; seStat: number; seStatWide?: number; seSyst: number; paths: number; estimate: number };
 }
 
 const fmt = (x: number | null | undefined, digits = 6): string =>
@@ -176,6 +176,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
     const st = L.statisticalCi ?? L.ci ?? [L.estimate, L.estimate];
     const zL = normalQuantile(1 - (1 - LEVEL) / 2);
     const seStat = (value < L.estimate ? L.estimate - st[0] : st[1] - L.estimate) / zL;
+    const seStatWide = Math.max(L.estimate - st[0], st[1] - L.estimate) / zL;
     add(
       {
         ...base, pValue: t.pValue, verdict: "pass", gated: true,
@@ -185,7 +186,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
           method,
       },
       "pass", family,
-      { value, tolerance: tol, interval, seStat, seSyst: L.systematic ?? 0, paths: totalPaths, estimate: L.estimate },
+      { value, tolerance: tol, interval, seStat, seStatWide, seSyst: L.systematic ?? 0, paths: totalPaths, estimate: L.estimate },
     );
   };
 

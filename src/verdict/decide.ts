@@ -14,8 +14,10 @@ export interface DecisionBasis {
   /** Relative tolerance of a pass. */
   tolerance: number;
   estimate: number;
-  /** Statistical standard error (after any misfit scaling) and systematic (model) standard error. */
+  /** Statistical standard error (after any misfit scaling) on the side facing the value (for a fail), and systematic (model) standard error. */
   seStat: number;
+  /** Statistical standard error on the wider side of an asymmetric interval (for a pass: the whole interval must fit); default seStat. */
+  seStatWide?: number;
   seSyst: number;
   /** Paths behind seStat. */
   paths: number;
@@ -47,10 +49,11 @@ export function pathsToDecide(b: DecisionBasis): { paths: number | null; why: st
   // fail: d > zFail * sqrt(seStat^2 N0/N + syst^2)
   const f = (d / b.zFail) ** 2 - s2;
   if (f > 0) need.push((b.paths * b.seStat * b.seStat) / f);
-  // pass: d + zPass * sqrt(seStat^2 N0/N + syst^2) <= halfBand
+  // pass: d + zPass * sqrt(seWide^2 N0/N + syst^2) <= halfBand
+  const wide = Math.max(b.seStat, b.seStatWide ?? b.seStat);
   const room = halfBand - d;
   const p = room > 0 ? (room / b.zPass) ** 2 - s2 : -1;
-  if (p > 0) need.push((b.paths * b.seStat * b.seStat) / p);
+  if (p > 0) need.push((b.paths * wide * wide) / p);
   if (need.length === 0) {
     return {
       paths: null,

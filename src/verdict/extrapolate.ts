@@ -109,7 +109,24 @@ export function extrapolate(s: ScaledSeries): Extrapolation {
     const limit: LimitEstimate = { measure: s.measure, quantity: s.quantity, scaling: s.scaling, level: LEVEL, ratios, method: "none", estimate: y[last], standardError: se[last], ci: null, beta: null, betaInterval: null, misfitPValue: null, sensitivity: [], note: "no grid point has any spread: nothing to extrapolate" };
     return { limit, testable: false, test: () => ({ statistic: NaN, pValue: NaN, minPValue: NaN, statisticKind: "z" }), interval: () => [NaN, NaN], undecidable: limit.note };
   }
-  return fitKept(s, keep.map((g) => s.n[g]), keep.map((g) => y[g]), keep.map((g) => se[g]), subMatrix(s.cov, G, keep), B, ratios, droppedNote);
+  return noNegativeVariance(s, fitKept(s, keep.map((g) => s.n[g]), keep.map((g) => y[g]), keep.map((g) => se[g]), subMatrix(s.cov, G, keep), B, ratios, droppedNote));
+}
+
+/**
+ * A variance limit extrapolated below 0 makes no sense: it is reported as "no limit" with the
+ * reason (Var/n^p most likely tends to 0: the power p is too large for this measure, e.g. a vertex
+ * count whose variance grows like log n), never as an estimate, and nothing is tested against it.
+ */
+function noNegativeVariance(s: ScaledSeries, ex: Extrapolation): Extrapolation {
+  if (s.quantity !== "varianceLimit" || !(ex.limit.estimate < 0)) return ex;
+  const why = `no limit: the fit extrapolates Var/n^${s.scaling} to ${ex.limit.estimate.toPrecision(3)} < 0, so Var/n^${s.scaling} most likely tends to 0 (the power ${s.scaling} is too large for this measure)`;
+  return {
+    limit: { ...ex.limit, method: "none", estimate: NaN, standardError: NaN, ci: null, statisticalCi: null, systematic: null, sensitivity: [], note: `${why}; the fit was: ${ex.limit.note}` },
+    testable: false,
+    test: () => ({ statistic: NaN, pValue: NaN, minPValue: NaN, statisticKind: "z" }),
+    interval: () => [NaN, NaN],
+    undecidable: why,
+  };
 }
 
 function subMatrix(c: Float64Array, d: number, keep: number[]): Float64Array {

@@ -35,7 +35,8 @@ export function renderChecks(r: VerdictReport): string {
     sourceRef(c.source),
   ]);
   const out: string[] = [];
-  out.push(`Checks (Holm over gated checks at alpha = ${r.alpha}; ${r.failed} failed)`);
+  const fam = r.familySizes ? ` (${r.familySizes.claims} claims, ${r.familySizes.predictions} predictions)` : "";
+  out.push(`Checks (Holm within each family${fam} at alpha = ${r.alpha}; a pass is decided within value x (1 +- ${r.tolerance ?? 0.01}); ${r.failed} failed)`);
   out.push(table(["check", "verdict", "gated", "estimate", "expected", "95% CI", "p", "p (Holm)", "source"], rows));
   const notable = r.checks.filter((c) => c.verdict !== "pass");
   if (notable.length) {

@@ -82,11 +82,11 @@ describe("planner vs a run at the planned N", () => {
   }, 60_000);
 
   it("a five-point grid gives an inflation factor; a one-point grid says the limit is not included", () => {
-    const five = planSuite(oneWalk([32, 64, 128, 256, 512], 5), { goal: { kind: "detect", rel: 0.05 }, pilotPaths: 1000 });
+    const five = planSuite(oneWalk([32, 64, 128, 256, 512], 5), { goal: { kind: "target-se", se: 0.05 }, pilotPaths: 1000 });
     expect(five.measures[0].inflation).not.toBeNull();
     expect(five.measures[0].inflation!).toBeGreaterThan(0);
     expect(five.measures[0].limitPaths).toBe(Math.ceil(five.measures[0].paths * Math.max(1, five.measures[0].inflation!) ** 2));
-    const one = planSuite(oneWalk([64], 5), { goal: { kind: "detect", rel: 0.05 }, pilotPaths: 500 });
+    const one = planSuite(oneWalk([64], 5), { goal: { kind: "target-se", se: 0.05 }, pilotPaths: 500 });
     expect(one.measures[0].inflation).toBeNull();
     const text = renderPlan(one);
     expect(text).toMatch(/LARGEST n/);
