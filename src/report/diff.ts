@@ -17,19 +17,12 @@ import type { ResultRecord } from "../run/types.js";
 import { holm } from "../stats/holm.js";
 import { twoSidedNormalP } from "../stats/normal.js";
 import { sig, textTable } from "./table.js";
+import { FieldError } from "../suite/load.js";
 
 export const DEFAULT_DIFF_ALPHA = 0.01;
 
 /** A report that cannot be compared: the message starts with the field path. */
-export class DiffInputError extends Error {
-  constructor(
-    readonly field: string,
-    problem: string,
-  ) {
-    super(`${field}: ${problem}`);
-    this.name = "DiffInputError";
-  }
-}
+export class DiffInputError extends FieldError {}
 
 /** The part of a report that diff reads (checked by `readDiffInput`). */
 export type DiffRow = Pick<ResultRecord, "n" | "paths" | "mean" | "meanSE" | "variance" | "varianceSE"> & {

@@ -17,15 +17,19 @@ import {
   type Vec2,
 } from "./schema.js";
 
-export class SuiteError extends Error {
+/** An error about one field of some input: the message starts with the field's path. */
+export class FieldError extends Error {
   constructor(
     readonly field: string,
     problem: string,
   ) {
     super(`${field}: ${problem}`);
-    this.name = "SuiteError";
+    this.name = new.target.name;
   }
 }
+
+/** A suite file or object that is not a valid suite. */
+export class SuiteError extends FieldError {}
 
 /** Largest number of stored path points (all walks, walks x (n+1)) per worker: 2^24. */
 export const MAX_POINTS_PER_WORKER = 2 ** 24;

@@ -15,15 +15,13 @@
 import type { Mat2, Vec2 } from "../suite/schema.js";
 import { foldedNormalMean, KahanSum, secondsSince } from "./special.js";
 import { normalCdf } from "../stats/normal.js";
+import type { ExactMeans } from "./spitzer-widom.js";
 
 export const BNB_SOURCE =
   "Barndorff-Nielsen-Baxter formula (Combinatorial lemmas in higher dimensions, Trans. AMS 108 (1963); docs/theory.md sec. 3): E A_n = (1/2) sum_{a+b<=n} E|det(S_a,S'_b)|/(ab)";
 
-export interface AreaMeans {
-  means: Record<string, number>;
-  errors: Record<string, number>;
-  reasons: string[];
-}
+/** Exact finite-n mean areas: spitzer-widom.ts's record of exact means, without its sources. */
+export type AreaMeans = Omit<ExactMeans, "sources">;
 
 export function gaussianAreaMeans(mean: Vec2, cov: Mat2, ns: number[], budgetSeconds: number): AreaMeans {
   const start = performance.now();

@@ -136,12 +136,16 @@ function isotropicScale(cov: Mat2, tol: number): number | null {
   return Math.abs(cov[0][0] - cov[1][1]) <= tol * s && Math.abs(cov[0][1]) <= tol * s ? s : null;
 }
 
+/** Infinite-variance steps put a suite outside every statement: says so in d; true when they do. */
+function outsideEveryStatement(d: Diagnosis, c: Context): boolean {
+  if (!c.infiniteVariance.length) return false;
+  d.reasons.push(`walks[${c.infiniteVariance.join(", ")}]: infinite variance (student dof <= 2): outside every statement`);
+  return true;
+}
+
 function diagnosePerimeter(c: Context): Diagnosis {
   const d = blank("perimeter", c);
-  if (c.infiniteVariance.length) {
-    d.reasons.push(`walks[${c.infiniteVariance.join(", ")}]: infinite variance (student dof <= 2): outside every statement`);
-    return d;
-  }
+  if (outsideEveryStatement(d, c)) return d;
   if (c.allZero) {
     const b = brownianPerimeterConstant(c.covs);
     d.limitLaw = "non-normal";
@@ -201,10 +205,7 @@ function diagnosePerimeter(c: Context): Diagnosis {
 
 function diagnoseDiameter(c: Context): Diagnosis {
   const d = blank("diameter", c);
-  if (c.infiniteVariance.length) {
-    d.reasons.push(`walks[${c.infiniteVariance.join(", ")}]: infinite variance (student dof <= 2): outside every statement`);
-    return d;
-  }
+  if (outsideEveryStatement(d, c)) return d;
   if (c.allZero) {
     d.limitLaw = "non-normal";
     d.meanScaling = 0.5;
@@ -246,10 +247,7 @@ function diagnoseArea(c: Context): Diagnosis {
   const d = blank("area", c);
   d.varianceScaling = 3;
   d.meanScaling = 2;
-  if (c.infiniteVariance.length) {
-    d.reasons.push(`walks[${c.infiniteVariance.join(", ")}]: infinite variance (student dof <= 2): outside every statement`);
-    return d;
-  }
+  if (outsideEveryStatement(d, c)) return d;
   if (c.allZero) {
     d.limitLaw = "non-normal";
     d.varianceScaling = 2;

@@ -1,14 +1,11 @@
 // The CLI's contract: --help, exit codes (0 ok, 2 bad input or usage), nothing written on bad input.
 
 import { describe, expect, it } from "vitest";
-import { spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
+import { cli } from "../cli-runner.js";
 
-const ROOT = new URL("../../", import.meta.url).pathname;
-const CLI = join(ROOT, "dist/cli.js");
-const cli = (args: string[]) => spawnSync("node", [CLI, ...args], { encoding: "utf8", timeout: 120_000 });
 
 const good = {
   title: "cli test",

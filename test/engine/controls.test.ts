@@ -6,7 +6,7 @@
 import { describe, expect, it } from "vitest";
 import { CONTROLS_PER_WALK } from "../../src/engine/types.js";
 import type { StepLaw } from "../../src/suite/schema.js";
-import { kernels, SAMPLE_LAWS, GAUSS_ISO } from "./helpers.js";
+import { kernels, SAMPLE_LAWS, GAUSS_ISO } from "./engine-helpers.js";
 
 describe("control values", () => {
   it("WASM == twin bit for bit (1 and 3 walks, chunked runs)", () => {

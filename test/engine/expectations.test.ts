@@ -4,7 +4,7 @@
 import { describe, expect, it } from "vitest";
 import type { Measure, StepLaw } from "../../src/suite/schema.js";
 import { recordLayout } from "../../src/engine/types.js";
-import { kernels, meanSE, GAUSS_ISO } from "./helpers.js";
+import { kernels, meanSE, GAUSS_ISO } from "./engine-helpers.js";
 
 const Z = 4;
 

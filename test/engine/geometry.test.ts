@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { convexHull, hullMeasures, orient, crossSign } from "../../src/engine/twin.js";
 import { MEASURE_REGISTRY, measureSpec, type Measure } from "../../src/geometry/measure-registry.js";
-import { bruteMeasures, exactPoints, fixtureRandom, kernels, pointSets, relErr, GAUSS_ISO } from "./helpers.js";
+import { bruteMeasures, exactPoints, fixtureRandom, kernels, pointSets, relErr, GAUSS_ISO } from "./engine-helpers.js";
 
 const sets = pointSets();
 // Kernels whose buffers hold any fixture (capacity k * (nMax + 1) >= 80).

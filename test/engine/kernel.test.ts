@@ -4,7 +4,7 @@ import { createWasmKernel, loadWasmModule } from "../../src/engine/wasm.js";
 import { Rng, zigguratTables } from "../../src/engine/twin.js";
 import type { Measure, StepLaw } from "../../src/suite/schema.js";
 import { recordLayout } from "../../src/engine/types.js";
-import { bruteMeasures, kernels, relErr, wasmModuleOnce, SAMPLE_LAWS, GAUSS_ISO } from "./helpers.js";
+import { bruteMeasures, kernels, relErr, wasmModuleOnce, SAMPLE_LAWS, GAUSS_ISO } from "./engine-helpers.js";
 
 const GRID = [1, 2, 7, 50, 300];
 

@@ -7,7 +7,7 @@ import { describe, expect, it } from "vitest";
 import chisquareCdf from "@stdlib/stats-base-dists-chisquare-cdf";
 import normalCdf from "@stdlib/stats-base-dists-normal-cdf";
 import type { StepLaw } from "../../src/suite/schema.js";
-import { kernels, ksTest, meanSE, SAMPLE_LAWS } from "./helpers.js";
+import { kernels, ksTest, meanSE, SAMPLE_LAWS } from "./engine-helpers.js";
 
 const Z = 4;
 const P_MIN = 1e-3;

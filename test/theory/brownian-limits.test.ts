@@ -3,7 +3,7 @@ import { ALPHA, brownianPerimeterConstant } from "../../src/theory/brownian-limi
 import { gaussianAreaMeans } from "../../src/theory/area-mean.js";
 import { predict } from "../../src/theory/predict.js";
 import type { Mat2, Suite, Vec2 } from "../../src/suite/schema.js";
-import { hullOf, meanSE, normalSource } from "./helpers.js";
+import { hullOf, meanSE, normalSource } from "./theory-helpers.js";
 
 const I: Mat2 = [[1, 0], [0, 1]];
 const suiteOf = (walks: Suite["walks"], measure: Suite["measure"], n = [10]): Suite => ({ title: "t", seed: 1, walks, measure, n, paths: 10 });

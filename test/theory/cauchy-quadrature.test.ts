@@ -3,7 +3,7 @@ import { cauchyMeanPerimeter } from "../../src/theory/cauchy-quadrature.js";
 import { lindleyModule, runningMaxLaw, spitzerMaxMean, spitzerMaxMeans } from "../../src/theory/running-max.js";
 import { spitzerWidomMeans } from "../../src/theory/spitzer-widom.js";
 import type { Mat2, Vec2 } from "../../src/suite/schema.js";
-import { hullOf, meanSE, normalSource } from "./helpers.js";
+import { hullOf, meanSE, normalSource } from "./theory-helpers.js";
 
 describe("running maximum by the Lindley recursion vs Spitzer's E M_n = sum E[S_k^+]/k (Spitzer, Trans. AMS 82 (1956))", () => {
   it("matches for drifts -0.3, 0, 0.05, 1 at n = 10, 200", () => {

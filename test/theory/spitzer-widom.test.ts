@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { gaussianAbsMean } from "../../src/theory/gaussian-abs.js";
 import { spitzerWidomMeans } from "../../src/theory/spitzer-widom.js";
 import type { StepLaw, Vec2 } from "../../src/suite/schema.js";
-import { hullOf } from "./helpers.js";
+import { hullOf } from "./theory-helpers.js";
 
 const I: [[number, number], [number, number]] = [[1, 0], [0, 1]];
 

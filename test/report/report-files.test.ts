@@ -2,15 +2,13 @@
 // with --report DIR, --junit FILE, --samples FILE; walkhull diff with its exit codes.
 
 import { describe, expect, it } from "vitest";
-import { spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, readFileSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
+import { cli as runCli } from "../cli-runner.js";
 import { validateJunit } from "./junit-structure.js";
 
-const ROOT = new URL("../../", import.meta.url).pathname;
-const CLI = join(ROOT, "dist/cli.js");
-const cli = (args: string[]) => spawnSync("node", [CLI, ...args], { encoding: "utf8", timeout: 180_000 });
+const cli = (args: string[]) => runCli(args, 180_000);
 
 const SUITE = {
   title: "cli report test",
