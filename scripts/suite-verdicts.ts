@@ -31,7 +31,7 @@ for (const s of suites) {
   const t0 = performance.now();
   const r = spawnSync("node", ["dist/cli.js", "run", `validation/${s}.json`, "--out", out, "--workers", workers, "--quiet", "--checkpoint", join(dir, `${s}.ckpt`)], { encoding: "utf8" });
   const secs = (performance.now() - t0) / 1000;
-  let checks: Check[] = [];
+  let checks: Check[];
   try {
     checks = (JSON.parse(readFileSync(out, "utf8")) as { checks: Check[] }).checks ?? [];
   } catch {
