@@ -3,6 +3,10 @@
 //   npm run calibrate                       # the full study (~20-30 min on 2 idle cores)
 //   npm run calibrate -- --quick            # a smoke test: a few seeds, small budgets; claims nothing
 //   npm run calibrate -- --seeds 100 --json calibration.json --markdown calibration.md
+//   npm run calibrate -- --study b --b-seeds 10,20   # only the targets (study B), its seed counts
+//   npm run calibrate -- --from-json a.json,b.json   # print the table of saved study results
+// Each finished study is also written to stderr as one JSON line ("study: {...}"), so a long run
+// that is stopped keeps what it measured.
 //
 // Study A (every configuration, >= 100 seeds): one simulation per seed; on it, claims of the
 // perimeter's sigma^2 = lim Var(L_n)/n equal to the true value x (1 + e) for e in 0, +-0.5%, +-1%,
@@ -17,7 +21,7 @@
 // in general position, the linearisation of docs/theory.md), so a wrong formula shows up here as
 // false failures.
 
-import { writeFileSync } from "node:fs";
+import { readFileSync, writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import { validateSuite } from "../src/suite/load.js";
 import type { Claim, Suite } from "../src/suite/schema.js";
@@ -34,9 +38,16 @@ const { values: flags } = parseArgs({
     workers: { type: "string" },
     json: { type: "string" },
     markdown: { type: "string" },
+    study: { type: "string" },
+    "b-seeds": { type: "string" },
+    "from-json": { type: "string" },
   },
 });
 const quick = Boolean(flags.quick);
+const which = flags.study ?? "all";
+if (!["a", "b", "all"].includes(which)) throw new Error(`--study: expected a, b or all, got ${JSON.stringify(which)}`);
+const bSeeds = (flags["b-seeds"] ?? (quick ? "2,2" : "10,20")).split(",").map(Number);
+if (bSeeds.length !== 2 || !bSeeds.every((x) => Number.isInteger(x) && x > 0)) throw new Error(`--b-seeds: expected two positive integers "k,m", got ${JSON.stringify(flags["b-seeds"])}`);
 const seeds = Number(flags.seeds ?? (quick ? 3 : 100));
 const workers = Number(flags.workers ?? 2);
 for (const [name, v] of [["--seeds", seeds], ["--workers", workers]] as const) {
@@ -133,8 +144,12 @@ async function study(name: string, suite: Omit<Suite, "seed" | "paths">, paths: 
     }
     if (!quick && (s + 1) % 10 === 0) process.stderr.write(`${name}, ${paths} paths: ${s + 1}/${nSeeds} seeds (${((performance.now() - t0) / 1000).toFixed(0)} s)\n`);
   }
-  return { name, paths, seeds: nSeeds, sigma2, seconds: (performance.now() - t0) / 1000, tallies: [...tallies.entries()].map(([error, t]) => ({ error, ...t })) };
+  const result = { name, paths, seeds: nSeeds, sigma2, seconds: (performance.now() - t0) / 1000, tallies: [...tallies.entries()].map(([error, t]) => ({ error, ...t })) };
+  process.stderr.write(`study: ${JSON.stringify(result)}\n`);
+  return result;
 }
+
+type StudyResult = Awaited<ReturnType<typeof study>>;
 
 const pct = (x: number) => `${(100 * x).toFixed(1)}%`;
 const wil = (k: number, n: number) => {
@@ -143,14 +158,26 @@ const wil = (k: number, n: number) => {
 };
 
 async function main() {
-  const t0 = performance.now();
-  const a = [];
-  for (const [i, c] of CONFIGS.entries()) a.push(await study(c.name, c.suite, c.paths, seeds, ERRORS, 10_000 * (i + 1)));
-  const two = CONFIGS[1].suite;
-  const b = [
-    await study("targets: two drifting walks, 5% off", two, quick ? 8000 : 100_000, quick ? 2 : 10, [-0.05, 0.05], 90_000),
-    await study("targets: two drifting walks, 1% off and correct", two, quick ? 16000 : 400_000, quick ? 2 : 20, [0, -0.01, 0.01], 95_000),
-  ];
+  let a: StudyResult[] = [];
+  let b: StudyResult[] = [];
+  if (flags["from-json"]) {
+    // Saved results (the JSON of --json, or files of "study:" lines' objects): studies whose name starts with "targets" are study B.
+    const all = flags["from-json"].split(",").flatMap((f) => {
+      const j = JSON.parse(readFileSync(f, "utf8"));
+      return Array.isArray(j) ? j : j.studyA ? [...j.studyA, ...j.studyB] : [j];
+    }) as StudyResult[];
+    a = all.filter((s) => !s.name.startsWith("targets"));
+    b = all.filter((s) => s.name.startsWith("targets"));
+  } else {
+    if (which !== "b") for (const [i, c] of CONFIGS.entries()) a.push(await study(c.name, c.suite, c.paths, seeds, ERRORS, 10_000 * (i + 1)));
+    const two = CONFIGS[1].suite;
+    if (which !== "a") {
+      b = [
+        await study("targets: two drifting walks, 5% off", two, quick ? 8000 : 100_000, bSeeds[0], [-0.05, 0.05], 90_000),
+        await study("targets: two drifting walks, 1% off and correct", two, quick ? 16000 : 400_000, bSeeds[1], [0, -0.01, 0.01], 95_000),
+      ];
+    }
+  }
   const lines: string[] = [];
   lines.push(`Calibration${quick ? " (QUICK: too few seeds to claim anything)" : ""}: alpha = ${ALPHA}, tolerance = ${TOLERANCE} (relative), grid n = ${GRID.join(", ")}; each claim judged alone; 95% Wilson intervals.`);
   lines.push("");
@@ -178,7 +205,7 @@ async function main() {
   lines.push("");
   lines.push(`Power (fail rate) per error size: ${[...a, ...b].map((s) => `${s.name} @ ${s.paths}: ${s.tallies.filter((t) => t.error !== 0).map((t) => `${(100 * t.error).toFixed(1)}% -> ${pct(t.fail / t.runs)}`).join(", ")}`).join("; ")}.`);
   lines.push("");
-  lines.push(`Wall time ${((performance.now() - t0) / 1000 / 60).toFixed(1)} min on ${workers} worker(s) (${[...a, ...b].map((s) => `${s.name} @ ${s.paths}: ${s.seconds.toFixed(0)} s`).join("; ")}).`);
+  lines.push(`Wall time per study on ${workers} worker(s): ${[...a, ...b].map((s) => `${s.name} @ ${s.paths}: ${s.seconds.toFixed(0)} s`).join("; ")}.`);
   const text = lines.join("\n") + "\n";
   process.stdout.write(text);
   if (flags.markdown) writeFileSync(flags.markdown, text);
