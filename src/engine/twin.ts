@@ -1,6 +1,12 @@
-// Plain-TS twin of the WASM kernel (assembly/laws.ts, walks.ts, extremes.ts, filters.ts, paths.ts): the same algorithms,
-// streams and draw order, so both give the same values (up to last-ulp differences of
-// exp/log/cos/sin/pow between V8 and AssemblyScript's math library; see ./prng.ts). It is the
+// Plain-TS twin of the WASM kernel (assembly/laws.ts, walks.ts, extremes.ts, filters.ts, paths.ts):
+// the same streams and draw order, the same per-walk frames, octagon extremes, certified filter and
+// second pass (joint frame for k > 1, frame rotated by pi/8 for k = 1), sort, chain and measures,
+// so both give the same values (up to last-ulp differences of exp/log/cos/sin/pow between V8 and
+// AssemblyScript's math library; see ./prng.ts) and the same filter survivors. It leaves out only
+// what the kernel does for speed without changing a result: the f64x2 (two points per step)
+// arithmetic, the per-chunk bounding boxes that drop whole chunks, and the box-guided search for
+// extremes in large groups (each proved there to give the point-by-point outcome); and it copies
+// a group into the candidates before filtering it (the kernel filters while reading). It is the
 // oracle of the kernel tests and the JS baseline of the bench.
 
 import { CONTROLS_PER_WALK, LAW_CODE, recordLayout, type CompiledWalk, type Kernel, type KernelSetup, type RecordLayout } from "./types.js";
@@ -80,6 +86,9 @@ export function drawStepsInto(
 }
 
 const FILTER_MIN = 32;
+// cos and sin of pi/8 (assembly/setup.ts rotateFrame).
+const COS_PI8 = 0.9238795325112867;
+const SIN_PI8 = 0.3826834323650898;
 
 /** The twin kernel; extra methods serve tests and benches. */
 export class TwinKernel implements Kernel {
@@ -105,8 +114,10 @@ export class TwinKernel implements Kernel {
   private readonly polyY = new Float64Array(8);
   private hullCount = 0;
   private candCount = 0;
+  /** Filter survivors (candidates left for the sort and chain) summed over every grid point run. */
+  survivors = 0;
   // Frame and extremes (see assembly/setup.ts and extremes.ts).
-  private fa = 1; private fb = 0; private fc = 1;
+  private fa = 1; private fb = 0; private fc = 1; private fd = 0;
   private ext = new Float64Array(8);
   private exX = new Float64Array(8);
   private exY = new Float64Array(8);
@@ -134,7 +145,7 @@ export class TwinKernel implements Kernel {
   }
 
   private setFrame(cnt: number, sx: number, sy: number, sxx: number, sxy: number, syy: number): void {
-    this.fa = 1; this.fb = 0; this.fc = 1;
+    this.fa = 1; this.fb = 0; this.fc = 1; this.fd = 0;
     const mx = sx / cnt, my = sy / cnt;
     const cxx = sxx / cnt - mx * mx;
     const cxy = sxy / cnt - mx * my;
@@ -151,7 +162,7 @@ export class TwinKernel implements Kernel {
   }
 
   private resetExtremes(x: number, y: number): void {
-    const u = this.fa * x, v = this.fb * x + this.fc * y;
+    const u = this.fa * x + this.fd * y, v = this.fb * x + this.fc * y;
     const e = this.ext;
     e[0] = u; e[4] = u; e[1] = u + v; e[5] = u + v; e[2] = v; e[6] = v; e[3] = u - v; e[7] = u - v;
     this.exX.fill(x);
@@ -160,16 +171,15 @@ export class TwinKernel implements Kernel {
     this.absY = Math.abs(y);
   }
 
-  private gather(srcX: Float64Array, srcY: Float64Array, from: number, to: number): void {
-    const e = this.ext, X = this.exX, Y = this.exY, CX = this.CX, CY = this.CY;
+  /** As assembly/extremes.ts gatherGroup, point by point (from resetExtremes at the group's first point). */
+  private scanExtremes(srcX: Float64Array, srcY: Float64Array, from: number, to: number): void {
+    const e = this.ext, X = this.exX, Y = this.exY;
     let u0 = e[0], s1 = e[1], v2 = e[2], d3 = e[3], u4 = e[4], s5 = e[5], v6 = e[6], d7 = e[7];
     let mxa = this.absX, mya = this.absY;
-    const a = this.fa, b = this.fb, c = this.fc;
-    let w = this.candCount;
+    const a = this.fa, b = this.fb, c = this.fc, dd = this.fd;
     for (let i = from; i < to; i++) {
       const x = srcX[i], y = srcY[i];
-      CX[w] = x; CY[w] = y; w++;
-      const u = a * x, v = b * x + c * y;
+      const u = a * x + dd * y, v = b * x + c * y;
       const s = u + v, d = u - v;
       if (u > u0) { u0 = u; X[0] = x; Y[0] = y; }
       if (u < u4) { u4 = u; X[4] = x; Y[4] = y; }
@@ -184,7 +194,40 @@ export class TwinKernel implements Kernel {
     }
     e[0] = u0; e[1] = s1; e[2] = v2; e[3] = d3; e[4] = u4; e[5] = s5; e[6] = v6; e[7] = d7;
     this.absX = mxa; this.absY = mya;
-    this.candCount = w;
+  }
+
+  /** Extremes of src[from..to) (to > from), then the group appended to the candidates and filtered. */
+  private gatherAndFilter(srcX: Float64Array, srcY: Float64Array, from: number, to: number): void {
+    const start = this.candCount;
+    this.resetExtremes(srcX[from], srcY[from]);
+    this.scanExtremes(srcX, srcY, from, to);
+    this.append(srcX, srcY, from, to);
+    this.filterCandidates(start);
+  }
+
+  /** As assembly/filters.ts filterSecondPass: the survivors filtered again, in place. */
+  private filterSecondPass(g: number, hi: number): void {
+    const count = this.candCount;
+    if (this.k > 1) {
+      // Joint frame of all walks (filterJoint).
+      let sx = 0, sy = 0, sxx = 0, sxy = 0, syy = 0;
+      for (let j = 0; j < this.k; j++) {
+        const o = 5 * (j * this.grid.length + g);
+        sx += this.SEG[o]; sy += this.SEG[o + 1]; sxx += this.SEG[o + 2]; sxy += this.SEG[o + 3]; syy += this.SEG[o + 4];
+      }
+      this.setFrame(this.k * (1 + hi), sx, sy, sxx, sxy, syy);
+    } else {
+      // The walk's frame rotated by pi/8 (filterRotated; setup.ts rotateFrame).
+      if (count < FILTER_MIN) return;
+      const a = this.fa, b = this.fb, c = this.fc;
+      this.fa = COS_PI8 * a + SIN_PI8 * b;
+      this.fd = SIN_PI8 * c;
+      this.fb = COS_PI8 * b - SIN_PI8 * a;
+      this.fc = COS_PI8 * c;
+    }
+    this.resetExtremes(this.CX[0], this.CY[0]);
+    this.scanExtremes(this.CX, this.CY, 0, count);
+    this.filterCandidates(0);
   }
 
   /** The conservative filter of assembly/filters.ts filterGroup (proof there). */
@@ -267,12 +310,10 @@ export class TwinKernel implements Kernel {
         const o = 5 * (j * G + g);
         this.setFrame(1 + hi, SEG[o], SEG[o + 1], SEG[o + 2], SEG[o + 3], SEG[o + 4]);
         const base = j * stride;
-        const start = this.candCount;
-        const first = base + prev + 1;
-        this.resetExtremes(PX[first], PY[first]);
-        this.gather(PX, PY, first, base + hi + 1);
-        this.filterCandidates(start);
+        this.gatherAndFilter(PX, PY, base + prev + 1, base + hi + 1);
       }
+      this.filterSecondPass(g, hi);
+      this.survivors += this.candCount;
       const h = this.chain();
       hullFunctionals(this.HX, this.HY, h, out, offset + this.layout.perPoint * g);
       if (ctl) this.writeControls(ctl, ctlOffset, g, hi);
@@ -364,7 +405,8 @@ export class TwinKernel implements Kernel {
     let h = 0;
     if (count > 0) {
       this.resetExtremes(px[0], py[0]);
-      this.gather(px, py, 0, count);
+      this.scanExtremes(px, py, 0, count);
+      this.append(px, py, 0, count);
       if (useFilter) this.filterCandidates(0);
       h = this.chain();
     }

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { compileWalks } from "../../src/engine/compile.js";
-import { createWasmKernel, loadWasmModule } from "../../src/engine/wasm.js";
+import { createWasmKernel, loadWasmModule, loadWasmModuleSync } from "../../src/engine/wasm.js";
+import { createTwinKernel } from "../../src/engine/twin.js";
 import { Rng, zigguratTables } from "../../src/engine/twin.js";
 import type { Measure, StepLaw } from "../../src/suite/schema.js";
 import { recordLayout } from "../../src/engine/types.js";
@@ -74,6 +75,26 @@ describe("WASM == twin", () => {
     const setup = { walks: compileWalks([GAUSS_ISO]), grid: [10], seed: 1 };
     const k = createWasmKernel(m, setup);
     expect(k.runBlock(0, 3).length).toBe(3 * recordLayout(1).width);
+  });
+});
+
+describe("the twin filters as the kernel does", () => {
+  it("the same filter survivors, path by path (k = 1, 2, 3; the bench build counts the kernel's)", () => {
+    const bench = loadWasmModuleSync(new URL("../../build/walkhull.bench.wasm", import.meta.url));
+    const laws = [SAMPLE_LAWS.gaussian, { law: "gaussian", mean: [0, 1], cov: [[1, 0.3], [0.3, 0.5]] } as StepLaw, GAUSS_ISO];
+    for (const k of [1, 2, 3]) {
+      const grid = [40, 300, 3000];
+      const setup = { walks: compileWalks(laws.slice(0, k)), grid, seed: 31 };
+      const twin = createTwinKernel(setup);
+      twin.runBlock(2, 5);
+      const ex = createWasmKernel(bench, setup).exports as unknown as { seedBlock(s: bigint, b: bigint): void; benchResetStats(): void; benchPaths(c: number, l: number): number; benchSurvival(): number };
+      ex.benchResetStats();
+      ex.seedBlock(31n, 2n);
+      ex.benchPaths(5, 3);
+      // benchSurvival = survivors / new points, new points = paths x k x n_max.
+      expect(Math.round(ex.benchSurvival() * 5 * k * 3000)).toBe(twin.survivors);
+      expect(twin.survivors).toBeGreaterThan(0);
+    }
   });
 });
 
