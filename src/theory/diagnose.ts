@@ -11,7 +11,7 @@ import { MEASURES, measureSpec } from "../geometry/measure-registry.js";
 import { BETA_ISOTROPIC, brownianAreaOneWalk, brownianPerimeterConstant, RMC_SOURCE, SCALING_LIMIT_SOURCE, U0_ESTIMATE, V0_ESTIMATE } from "./brownian-limits.js";
 import { oneWalkDriftArea } from "./drift-area.js";
 import { dist, driftPolygon, locate, type DriftPolygon } from "./geometry.js";
-import { isContinuousLaw, stepMoments, type StepMoments } from "./laws.js";
+import { isContinuousLaw, stepMoments, type StepMoments } from "./step-moments.js";
 import {
   areaGradients, DIAMETER_VARIANCE_SOURCES, diameterVariance, linearisedVariance, PERIMETER_VARIANCE_SOURCES,
   perimeterGradients, walksAt,

@@ -12,7 +12,7 @@
 // edges through 0 bulge outward by order sqrt(n) over length n, a non-Gaussian term: not normal.
 
 import type { Mat2, Vec2 } from "../suite/schema.js";
-import { quad } from "./laws.js";
+import { quad } from "./step-moments.js";
 
 export const DRIFT_AREA_MEAN_CONSTANT = Math.sqrt(2 * Math.PI) / 3;
 export const V_PLUS_ESTIMATE = 0.019;

@@ -14,7 +14,7 @@
 
 import type { Mat2, Vec2 } from "../suite/schema.js";
 import { dist, driftPolygon, type DriftPolygon } from "./geometry.js";
-import { quad } from "./laws.js";
+import { quad } from "./step-moments.js";
 
 export const PERIMETER_VARIANCE_SOURCES = [
   "one walk: Convex hulls of planar random walks with drift, Proc. AMS 143 (2015), arXiv:1301.4059 [memory]",

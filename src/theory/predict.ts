@@ -10,7 +10,7 @@ import type { Suite } from "../suite/schema.js";
 import { gaussianAreaMeans, BNB_SOURCE } from "./area-mean.js";
 import { cauchyMeanPerimeter, CAUCHY_SOURCE } from "./cauchy-quadrature.js";
 import { diagnose, type Diagnosis } from "./diagnose.js";
-import { isContinuousLaw, stepMoments as lawMoments } from "./laws.js";
+import { isContinuousLaw, stepMoments as lawMoments } from "./step-moments.js";
 import { secondsSince } from "./special.js";
 import { spitzerWidomMeans } from "./spitzer-widom.js";
 import type { MeanTargets, MeasurePrediction, Prediction, PredictionRow, PredictOptions } from "./types.js";

@@ -10,7 +10,7 @@
 import type { StepLaw } from "../suite/schema.js";
 import { discreteAbsMeans } from "./discrete-law.js";
 import { gaussianAbsMean } from "./gaussian-abs.js";
-import { lawAtoms } from "./laws.js";
+import { lawAtoms } from "./step-moments.js";
 import { KahanSum, secondsSince } from "./special.js";
 
 export const SPITZER_WIDOM_SOURCE =

@@ -16,7 +16,7 @@ import { jackknifeFromReplicates } from "../stats/jackknife.js";
 import type { CoMomentState } from "../stats/types.js";
 import type { SimulationResult } from "../run/types.js";
 import { CONTROLS_PER_WALK, recordLayout } from "../engine/types.js";
-import { stepMoments } from "../theory/laws.js";
+import { stepMoments } from "../theory/step-moments.js";
 import type { Measure, StepLaw } from "../suite/schema.js";
 
 export type Quantity = "mean" | "variance";
