@@ -90,12 +90,18 @@ describe("same bits whatever the worker count", () => {
   });
 });
 
+/** A fresh folder with the suite, run whole on `workers` workers into `out` there (exit 0). */
+function wholeRun(out: string, workers: number): { d: string; suite: string } {
+  const d = tmp();
+  const suite = writeSuite(d);
+  const r = cli(["run", suite, "--workers", String(workers), "--quiet", "--out", join(d, out)]);
+  expect(r.status, r.stderr).toBe(0);
+  return { d, suite };
+}
+
 describe("parts and combine", () => {
   it("parts 0, 1, 2 of 3 combined give the bits of one run; combine refuses duplicates, gaps and bad part options", () => {
-    const d = tmp();
-    const suite = writeSuite(d);
-    const one = cli(["run", suite, "--workers", "1", "--quiet", "--out", join(d, "one.json")]);
-    expect(one.status, one.stderr).toBe(0);
+    const { d, suite } = wholeRun("one.json", 1);
     for (const i of [0, 1, 2]) {
       const r = cli(["run", suite, "--part", String(i), "--parts", "3", "--workers", "1", "--quiet", "--out", join(d, `s${i}.json`)]);
       expect(r.status, r.stderr).toBe(0);
@@ -141,10 +147,7 @@ describe("parts and combine", () => {
 
 describe("checkpoints", () => {
   it("a deterministic stop then --resume ends with the bits of an uninterrupted run", () => {
-    const d = tmp();
-    const suite = writeSuite(d);
-    const full = cli(["run", suite, "--workers", "2", "--quiet", "--out", join(d, "full.json")]);
-    expect(full.status, full.stderr).toBe(0);
+    const { d, suite } = wholeRun("full.json", 2);
     const ck = join(d, "ck.json");
     const stop = cli(["run", suite, "--workers", "1", "--quiet", "--checkpoint", ck, "--stop-after-blocks", "11", "--out", join(d, "r.json")]);
     expect(stop.status, stop.stderr).toBe(75);
