@@ -88,8 +88,10 @@ const kurtEffect = (g2: number) => (Math.abs(g2) * 0.5503) / 24;
 /**
  * One decision per measure, judged on the trend over the grid (not only at the largest n):
  * - non-normal limit confirmed when the limit of the skewness or of the excess kurtosis over the
- *   grid (ShapeLimit) is excluded from 0 under every model fitted (level alpha/2 each): the shape
- *   does not decay as a normal limit implies;
+ *   grid (ShapeLimit) is excluded from 0 under every model fitted (level alpha/2 each) AND by a
+ *   material amount (the end of its interval nearest 0 has an Edgeworth effect above tolerance/4):
+ *   the shape does not decay as a normal limit implies, by an amount that matters; a significant
+ *   but immaterial limit (or an unmodelled slow transient) stays undecided;
  * - normal convergence shown when it is not, the grid has >= 3 points, the worst case over both
  *   limits' (1 - alpha) intervals of their Edgeworth effect on the CDF (|g1| phi(0)/6 + |g2|
  *   max|He3 phi|/24; common practice) is below tolerance/4, and the (1 - alpha) DKW upper bound
@@ -106,11 +108,17 @@ export function lawDecision(ev: NormalityEvidence, grid: number[], tol: number, 
     ["skewness", ev.skewnessLimit, skewEffect],
     ["excess kurtosis", ev.kurtosisLimit, kurtEffect],
   ];
+  // The interval's end nearest 0 (0 when it contains 0): what the limit is at least, in magnitude.
+  const atLeast = (L: ShapeLimit) => (L.interval[0] > 0 ? L.interval[0] : L.interval[1] < 0 ? -L.interval[1] : 0);
   const confirmed = shapes
-    .filter(([, L]) => L !== null && L.pZero <= alpha / 2)
-    .map(([name, L]) => `the ${name} tends to ${L!.estimate.toPrecision(3)} (SE ${L!.se.toPrecision(2)}), not 0, under every trend model (p <= ${L!.pZero.toExponential(1)})`);
+    .filter(([, L, eff]) => L !== null && L.pZero <= alpha / 2 && eff(atLeast(L)) > tol / 4)
+    .map(([name, L]) => `the ${name} tends to ${L!.estimate.toPrecision(3)} (SE ${L!.se.toPrecision(2)}), not 0, under every trend model (p <= ${L!.pZero.toExponential(1)}), by a material amount (at least ${atLeast(L!).toPrecision(2)})`);
   if (confirmed.length) return { state: "non-normal", why: `non-normal limit confirmed: ${confirmed.join("; ")}` };
   const missing: string[] = [];
+  for (const [name, L, eff] of shapes) {
+    if (L !== null && L.pZero <= alpha / 2 && !(eff(atLeast(L)) > tol / 4))
+      missing.push(`the ${name} tends to ${L.estimate.toPrecision(3)}, not 0 (p <= ${L.pZero.toExponential(1)}), but by an amount immaterial at the tolerance (a non-normal limit is not confirmed below the tolerance; a smaller normalityTolerance would decide)`);
+  }
   if (grid.length < 3) missing.push(`${grid.length} grid point(s) show no trend (need >= 3 n)`);
   let effect = 0;
   for (const [name, L, eff] of shapes) {
