@@ -220,7 +220,8 @@ export function planSuite(suite: LoadedSuite, opts: PlanOptions): SuitePlan {
 
   let scalings: Map<Measure, number>;
   try {
-    const pred = predict(suite, { budgetSeconds: opts.predictBudgetSeconds ?? 5 });
+    // Only the variance scalings are read: the finite-n means need no accuracy here.
+    const pred = predict(suite, { budgetSeconds: opts.predictBudgetSeconds ?? 5, meanTargets: { relative: 1e-2 } });
     scalings = new Map(pred.measures.map((m) => [m.measure, m.varianceScaling]));
   } catch {
     scalings = new Map();
