@@ -87,19 +87,18 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
   const limitsOrder: string[] = [];
   const getExtrapolation = (measure: Measure, quantity: "varianceLimit" | "meanGrowth", scaling: number): Extrapolation => {
     const key = `${measure}|${quantity}|${scaling}`;
-    let ex = extrapolations.get(key) ?? shared.get(key);
-    if (ex && !extrapolations.has(key)) {
-      extrapolations.set(key, ex);
-      limitsOrder.push(key);
-    }
+    let ex = extrapolations.get(key);
     if (!ex) {
-      const est = estimates.get(measure);
-      const series = est
-        ? { ...scaledSeries(est, quantity === "varianceLimit" ? "variance" : "mean", scaling, grid), blocks: sim.blocks.length }
-        : plainRatios(quantity, scaling, grid, blocksFor(measure));
-      ex = extrapolate({ measure, quantity, scaling, n: grid, y: series.y, cov: series.cov, blocks: series.blocks, expectedRate });
+      ex = shared.get(key);
+      if (!ex) {
+        const est = estimates.get(measure);
+        const series = est
+          ? { ...scaledSeries(est, quantity === "varianceLimit" ? "variance" : "mean", scaling, grid), blocks: sim.blocks.length }
+          : plainRatios(quantity, scaling, grid, blocksFor(measure));
+        ex = extrapolate({ measure, quantity, scaling, n: grid, y: series.y, cov: series.cov, blocks: series.blocks, expectedRate });
+        shared.set(key, ex);
+      }
       extrapolations.set(key, ex);
-      shared.set(key, ex);
       limitsOrder.push(key);
     }
     return ex;

@@ -213,6 +213,11 @@ function tryAlt(label: string, f: () => number): { label: string; estimate: numb
 }
 
 /** Total interval: each side of the statistical interval widened in quadrature by z * se_syst. */
+/** Each side of an interval around est multiplied by f (a misfit scale factor, or a change of level z'/z). */
+function scaleAbout(est: number, ci: readonly [number, number], f: number): [number, number] {
+  return [est - f * (est - ci[0]), est + f * (ci[1] - est)];
+}
+
 function totalInterval(est: number, ci: [number, number], syst: number, z: number): [number, number] {
   const lo = est - ci[0];
   const hi = ci[1] - est;
@@ -274,7 +279,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
     const misfit = extra.misfitPValue !== null && extra.misfitPValue < MISFIT_SCALE_P && chi2PerDf !== null && chi2PerDf > 1;
     const S = misfit ? Math.sqrt(chi2PerDf!) : 1;
     const seStat = seStat0 * S;
-    const ciStat: [number, number] = [est - S * (est - ciStat0[0]), est + S * (ciStat0[1] - est)];
+    const ciStat = scaleAbout(est, ciStat0, S);
     const syst = systematicOf(est, alternatives);
     const ci = syst === null ? ciStat : totalInterval(est, ciStat, syst, z);
     const systNote = syst === null
@@ -293,7 +298,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
       },
       interval: (lv) => {
         const zl = normalQuantile(1 - (1 - lv) / 2);
-        const st: [number, number] = [est - (zl / z) * (est - ciStat[0]), est + (zl / z) * (ciStat[1] - est)];
+        const st = scaleAbout(est, ciStat, zl / z);
         return syst === null ? st : totalInterval(est, st, syst, zl);
       },
       undecidable: unbounded
@@ -367,7 +372,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
     fits = rates.map((b) => {
       const f = fitPowerLawFixed(nK, y, cov, b, opts);
       const S = f.df > 0 && f.pValue < MISFIT_SCALE_P && f.chi2 > f.df ? Math.sqrt(f.chi2 / f.df) : 1;
-      return { ...f, s2SE: f.s2SE * S, s2Interval: [f.s2 - S * (f.s2 - f.s2Interval[0]), f.s2 + S * (f.s2Interval[1] - f.s2)] as [number, number] };
+      return { ...f, s2SE: f.s2SE * S, s2Interval: scaleAbout(f.s2, f.s2Interval, S) };
     });
   } catch (e) {
     return none(`fixed-rate fit impossible (${(e as Error).message}); ratio at the largest n only, bias unknown`);
@@ -401,7 +406,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
     interval: (lv) => {
       const zl = normalQuantile(1 - (1 - lv) / 2);
       const each = fits.map((f, i) => {
-        const st: [number, number] = [f.s2 - (zl / z) * (f.s2 - f.s2Interval[0]), f.s2 + (zl / z) * (f.s2Interval[1] - f.s2)];
+        const st = scaleAbout(f.s2, f.s2Interval, zl / z);
         return systs[i] === null ? st : totalInterval(f.s2, st, systs[i]!, zl);
       });
       return [Math.min(...each.map((e) => e[0])), Math.max(...each.map((e) => e[1]))];

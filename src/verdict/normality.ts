@@ -14,7 +14,7 @@ import { ksNormalDistance, lillieforsPValue } from "../stats/lilliefors.js";
 import { mergeAll, summarize } from "../stats/moments.js";
 import { normalDistance, type NormalDistance } from "../stats/normal-distance.js";
 import { normalQuantile, normalSf, twoSidedNormalP } from "../stats/normal.js";
-import { cholesky, choleskySolve } from "../stats/linalg.js";
+import { linearGls } from "../stats/gls.js";
 import { excessKurtosisZ, skewnessZ } from "../stats/shape.js";
 import type { MomentState } from "../stats/types.js";
 
@@ -143,14 +143,6 @@ export function lawDecision(ev: NormalityEvidence, grid: number[], tol: number, 
   };
 }
 
-function skewness(st: MomentState): number {
-  return st.m3 / st.count / Math.pow(st.m2 / st.count, 1.5);
-}
-
-function kurtosis(st: MomentState): number {
-  return (st.m4 / st.count) / Math.pow(st.m2 / st.count, 2) - 3;
-}
-
 /**
  * Least-squares fits of t(s) = t_inf + sum_k c_k s^-powers[k] (s = n, or log n), one per model
  * (a model needs G >= its terms + 2 points). The SE of t_inf is the delete-one-block jackknife of
@@ -162,12 +154,14 @@ function shapeLimit(s: number[], full: number[], leaveOut: number[][], sizes: nu
   if (!full.every(Number.isFinite) || !leaveOut.every((r) => r.every(Number.isFinite))) return null;
   const z = normalQuantile(1 - alpha / 2);
   const models: ShapeLimit["models"] = [];
+  const identity = new Float64Array(G * G);
+  for (let i = 0; i < G; i++) identity[i * G + i] = 1;
   for (const powers of modelPowers) {
     const k = powers.length;
     if (G < k + 2) continue;
     const design: number[] = [];
     for (const v of s) design.push(1, ...powers.map((p) => Math.pow(v, -p)));
-    const fit = (y: number[]) => leastSquaresIntercept(y, design, k + 1);
+    const fit = (y: number[]) => leastSquaresIntercept(y, design, k + 1, identity);
     const est = fit(full);
     if (!Number.isFinite(est)) continue;
     const cov = jackknifeFromReplicates([est], leaveOut.map((r) => [fit(r)]), sizes).covariance;
@@ -180,18 +174,10 @@ function shapeLimit(s: number[], full: number[], leaveOut: number[][], sizes: nu
   return { estimate: base.estimate, se: base.se, pZero, interval, models };
 }
 
-/** First coefficient of the least-squares fit of y on the m x k design (row-major). */
-function leastSquaresIntercept(y: number[], x: number[], k: number): number {
-  const m = y.length;
-  const xtx = new Float64Array(k * k);
-  const xty = new Float64Array(k);
-  for (let i = 0; i < m; i++)
-    for (let a = 0; a < k; a++) {
-      xty[a] += x[i * k + a] * y[i];
-      for (let b = 0; b < k; b++) xtx[a * k + b] += x[i * k + a] * x[i * k + b];
-    }
+/** First coefficient of the ordinary least-squares fit of y on the m x k design (GLS with weight I); NaN when singular. */
+function leastSquaresIntercept(y: number[], x: number[], k: number, identity: Float64Array): number {
   try {
-    return choleskySolve(cholesky(xtx, k, "design"), k, xty)[0];
+    return linearGls(y, x, k, identity).coef[0];
   } catch {
     return NaN;
   }
@@ -216,7 +202,7 @@ export function normalityEvidence(n: number[], samples: ArrayLike<number>[], blo
   let kurtosisJackknifeSE = NaN;
   if (blocks.length >= 2) {
     // Jackknife over blocks of [g1(n_min), g1(n_max), g2(n_min), g2(n_max)] (correlations kept).
-    const jk = blockJackknife(blocks.map((b) => [b[0], b[G - 1]]), (m) => [skewness(m[0]), skewness(m[1]), kurtosis(m[0]), kurtosis(m[1])]);
+    const jk = blockJackknife(blocks.map((b) => [b[0], b[G - 1]]), (m) => { const [a, b] = m.map(summarize); return [a.skewness, b.skewness, a.excessKurtosis, b.excessKurtosis]; });
     const c = jk.covariance;
     const at = (i: number, j: number) => c[i * 4 + j];
     skewnessJackknifeSE = Math.sqrt(at(1, 1));
@@ -238,7 +224,7 @@ export function normalityEvidence(n: number[], samples: ArrayLike<number>[], blo
   let skewnessLimit: ShapeLimit | null = null;
   let kurtosisLimit: ShapeLimit | null = null;
   if (G >= 3 && blocks.length >= 2) {
-    const jk = blockJackknife(blocks, (m) => [...m.map(skewness), ...m.map(kurtosis)]);
+    const jk = blockJackknife(blocks, (m) => { const sm = m.map(summarize); return [...sm.map((x) => x.skewness), ...sm.map((x) => x.excessKurtosis)]; });
     const part = (v: ArrayLike<number>, off: number) => Array.from(v).slice(off, off + G);
     const scale = logTrend ? n.map(Math.log) : n;
     // Models: the first Edgeworth order, + the next order, and a SLOWER rate (half the power):
