@@ -13,11 +13,12 @@ import { oneWalkDriftArea } from "./drift-area.js";
 import { dist, driftPolygon, locate, type DriftPolygon } from "./geometry.js";
 import { isContinuousLaw, stepMoments, type StepMoments } from "./step-moments.js";
 import {
-  areaGradients, DIAMETER_VARIANCE_SOURCES, diameterVariance, linearisedVariance, PERIMETER_VARIANCE_SOURCES,
+  areaGradients, DIAMETER_VARIANCE_SOURCES, diameterVariance, farthestPairs, linearisedVariance, PERIMETER_VARIANCE_SOURCES,
   perimeterGradients, walksAt,
 } from "./linearised-variance.js";
+import { gaussianMaximum, MAX_FORMS } from "./gaussian-maximum.js";
 import { BAXTER_SOURCE } from "./vertices.js";
-import type { LimitLaw, MeasurePrediction } from "./types.js";
+import type { GaussianMaximumPrediction, LimitLaw, MeasurePrediction } from "./types.js";
 
 export interface Tolerances {
   tie: number;
@@ -217,11 +218,7 @@ function diagnoseDiameter(c: Context): Diagnosis {
   d.meanGrowth = dv.meanGrowth;
   d.meanGrowthKind = c.k === 1 ? "theorem" : "derived";
   d.sources.push(...(c.k === 1 ? DIAMETER_VARIANCE_SOURCES.slice(0, 1) : DIAMETER_VARIANCE_SOURCES));
-  if (dv.pair.gap <= c.tol.tie) {
-    d.limitLaw = "non-normal";
-    d.reasons.push(`tie for the farthest pair of vertices of P (relative gap ${fmt(Math.max(dv.pair.gap, 0))} <= tie tolerance ${c.tol.tie}): D_n is a maximum of several asymptotically Gaussian lengths, not normal`);
-    return d;
-  }
+  if (tieLaw(d, c, dv.pair.gap)) return d;
   const fail = driftHypotheses(c, [dv.pair.a, dv.pair.b]);
   if (fail) {
     d.limitLaw = fail.law;
@@ -242,6 +239,74 @@ function diagnoseDiameter(c: Context): Diagnosis {
   if (dv.pair.gap <= c.tol.nearTie) d.reasons.push(`near-tie for the farthest pair (relative gap ${fmt(dv.pair.gap)} <= near-tie tolerance ${c.tol.nearTie}): slow-convergence risk`);
   return d;
 }
+
+/** The Gaussian forms W = e_ab'(X_a - X_b) of the tied farthest pairs (one per walk at each end; X = 0 at the origin). */
+export function tieForms(c: Context): GaussianMaximumPrediction["forms"] {
+  const forms: GaussianMaximumPrediction["forms"] = [];
+  for (const { a, b } of farthestPairs(c.P, c.tol.tie)) {
+    const pa = c.P.points[a], pb = c.P.points[b], len = dist(pa, pb);
+    const e: Vec2 = [(pa[0] - pb[0]) / len, (pa[1] - pb[1]) / len];
+    const at = (p: number) => (p === 0 ? [null] : walksAt(c.P, p, c.tol.tie));
+    for (const ja of at(a)) for (const jb of at(b)) {
+      const gradients: Vec2[] = c.drifts.map(() => [0, 0]);
+      if (ja !== null) gradients[ja] = [e[0], e[1]];
+      if (jb !== null) gradients[jb] = [-e[0], -e[1]];
+      forms.push({ vertices: [[...pa], [...pb]], walks: [ja, jb], gradients });
+    }
+  }
+  return forms;
+}
+
+/**
+ * Ties for the farthest pair, or a repeated vertex at its ends (docs/theory.md sec. 7.1): D_n is a
+ * maximum of asymptotically Gaussian lengths. Sets the label and returns true when that applies.
+ */
+function tieLaw(d: Diagnosis, c: Context, gap: number): boolean {
+  const forms = tieForms(c);
+  if (forms.length <= 1) return false;
+  const vertices = new Set(forms.flatMap((f) => f.vertices.map((v) => `${v[0]},${v[1]}`)));
+  const what = gap <= c.tol.tie
+    ? `tie for the farthest pair of vertices of P (relative gap ${fmt(Math.max(gap, 0))} <= tie tolerance ${c.tol.tie}; ${vertices.size} vertices involved)`
+    : "several walks share a drift at an end of the farthest pair of vertices of P (repeated vertex)";
+  const zeroWalks = c.zero.flatMap((z, j) => (z ? [j] : []));
+  if (zeroWalks.length > 0 && forms.some((f) => f.walks.includes(null))) {
+    d.limitLaw = "non-normal";
+    d.reasons.push(`${what}; walks[${zeroWalks.join(", ")}] without drift sit at the vertex 0 of P: their running extremes are not Gaussian forms: non-normal, law not computed`);
+    return true;
+  }
+  const covariance = forms.map((f) => forms.map((g) => f.gradients.reduce((s, gj, j) => s + quad2(c.covs[j], gj, g.gradients[j]), 0)));
+  let law;
+  try {
+    law = gaussianMaximum(covariance);
+  } catch (e) {
+    d.limitLaw = "non-normal";
+    d.reasons.push(`${what}: D_n is a maximum of ${forms.length} Gaussian forms; non-normal, law not computed (${(e as Error).message}; at most ${MAX_FORMS} distinct forms are integrated)`);
+    return true;
+  }
+  const centre = d.meanGrowth ?? 0;
+  d.gaussianMaximum = {
+    centre, forms, covariance, mean: law.mean, meanError: law.meanError, variance: law.variance, varianceError: law.varianceError, method: law.method,
+  };
+  const scale = c.covs.reduce((s, cv) => s + cv[0][0] + cv[1][1], 0);
+  if (law.variance <= c.tol.tie * scale) {
+    d.limitLaw = "degenerate";
+    d.reasons.push(`${what}: every Gaussian form vanishes (the steps are constant along the pairs' directions); Var(D_n) = o(n)`);
+    return true;
+  }
+  d.limitLaw = "gaussian-maximum";
+  d.varianceLimit = law.variance;
+  d.varianceLimitKind = "derived";
+  d.sources.push("farthest-pair ties: (D_n - n d)/sqrt(n) -> max of the tied pairs' Gaussian forms [derived, docs/theory.md sec. 7.1]");
+  d.reasons.push(
+    `${what}: (D_n - n d)/sqrt(n) -> M = max of ${forms.length} Gaussian forms e_ab'(X_a - X_b)/sqrt(n) (${law.distinctForms} distinct${law.hasZeroForm ? ", and 0" : ""}), ` +
+      `E M = ${fmt(law.mean)} (error <= ${law.meanError.toExponential(1)}), Var M = ${fmt(law.variance)} (error <= ${law.varianceError.toExponential(1)}); ` +
+      `E D_n = n d + sqrt(n) E M + o(sqrt(n)), Var(D_n)/n -> Var M; ${law.method}`,
+  );
+  return true;
+}
+
+/** g' S h for a symmetric 2 x 2 S. */
+const quad2 = (S: Mat2, g: Vec2, h: Vec2) => g[0] * (S[0][0] * h[0] + S[0][1] * h[1]) + g[1] * (S[1][0] * h[0] + S[1][1] * h[1]);
 
 function diagnoseArea(c: Context): Diagnosis {
   const d = blank("area", c);

@@ -108,6 +108,15 @@ export function farthestPair(P: DriftPolygon): FarthestPair | null {
   return { ...pairs[0], gap };
 }
 
+/** Every pair of hull vertices of P whose distance is within relative `tol` of the diameter (ties included). */
+export function farthestPairs(P: DriftPolygon, tol: number): { a: number; b: number; d: number }[] {
+  const h = P.hull;
+  const pairs: { a: number; b: number; d: number }[] = [];
+  for (let i = 0; i < h.length; i++) for (let j = i + 1; j < h.length; j++) pairs.push({ a: h[i], b: h[j], d: dist(P.points[h[i]], P.points[h[j]]) });
+  const top = Math.max(0, ...pairs.map((p) => p.d));
+  return pairs.filter((p) => top - p.d <= tol * top);
+}
+
 export function diameterVariance(drifts: Vec2[], covs: Mat2[], tol = 1e-9) {
   const P = driftPolygon(drifts, tol);
   const pair = farthestPair(P);

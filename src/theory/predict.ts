@@ -58,6 +58,16 @@ function rowsFor(p: MeasurePrediction): PredictionRow[] {
     verdict: p.meanGrowthKind ?? "no prediction",
     source: src,
   });
+  const gm = p.gaussianMaximum;
+  if (gm) {
+    rows.push({
+      quantity: "lim (E - n d)/sqrt(n)",
+      value: `${fmt(gm.mean)} +- ${gm.meanError.toExponential(1)}`,
+      hypotheses: `d = ${fmt(gm.centre)}; E M of ${gm.forms.length} Gaussian forms`,
+      verdict: "derived",
+      source: src,
+    });
+  }
   for (const key of Object.keys(p.exactMeans)) {
     const target = p.exactMeansTarget?.[key];
     const reached = target === undefined || p.exactMeansError[key] <= target;

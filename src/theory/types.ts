@@ -1,9 +1,9 @@
 // What the prediction stage hands to the verdict stage and to `walkhull predict --json`.
 // The field names of MeasurePrediction are a contract (the prediction issue): add, never rename.
 
-import type { Measure } from "../suite/schema.js";
+import type { Measure, Vec2 } from "../suite/schema.js";
 
-export type LimitLaw = "normal" | "non-normal" | "degenerate" | "unknown";
+export type LimitLaw = "normal" | "non-normal" | "degenerate" | "unknown" | "gaussian-maximum";
 export type ConstantKind = "theorem" | "derived" | "estimate";
 
 export interface MeasurePrediction {
@@ -38,6 +38,28 @@ export interface MeasurePrediction {
   varianceUncalibrated?: boolean;
   /** Human-readable rows for the table: quantity, value, hypotheses, verdict, source. */
   rows?: PredictionRow[];
+  /** With limitLaw "gaussian-maximum" (a farthest-pair tie of the diameter, docs/theory.md sec. 7.1): the law of M. */
+  gaussianMaximum?: GaussianMaximumPrediction;
+}
+
+/**
+ * (X_n - n centre)/sqrt(n) -> M = max_i W_i, W ~ N(0, covariance), W_i = sum_j gradients[j] . X_j / sqrt(n)
+ * (X_j = S_n^j - n mu_j); hence E X_n = n centre + sqrt(n) mean + o(sqrt(n)) and Var(X_n)/n -> variance.
+ */
+export interface GaussianMaximumPrediction {
+  /** The first-order constant (the diameter of P); equals meanGrowth. */
+  centre: number;
+  /** One entry per form: the tied pair of vertices of P, the walk at each end (null: the origin), one gradient per walk. */
+  forms: { vertices: [Vec2, Vec2]; walks: [number | null, number | null]; gradients: Vec2[] }[];
+  /** Covariance of the forms (m x m): sum_j g_ij' Sigma_j g_lj. */
+  covariance: number[][];
+  /** E M and Var M with absolute error bounds. */
+  mean: number;
+  meanError: number;
+  variance: number;
+  varianceError: number;
+  /** How the law was computed (closed form or quadrature). */
+  method: string;
 }
 
 export interface PredictionRow {

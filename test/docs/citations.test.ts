@@ -33,7 +33,7 @@ describe("citations", () => {
   it("every 'docs/theory.md sec. N' names an existing section", () => {
     const theory = read("docs/theory.md");
     const sections = new Set([...theory.matchAll(/^## (\d+)\. /gm)].map((m) => m[1]));
-    const subsections = new Set([...theory.matchAll(/^- (\d+\.\d+) /gm)].map((m) => m[1]));
+    const subsections = new Set([...theory.matchAll(/^(?:- |### )(\d+\.\d+) /gm)].map((m) => m[1]));
     expect(sections.size).toBeGreaterThanOrEqual(10);
     const bad: string[] = [];
     for (const f of tracked) {

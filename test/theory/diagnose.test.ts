@@ -39,11 +39,18 @@ describe("When the normal limit fails (docs/theory.md sec. 12)", () => {
     expect(of(p, "perimeter").reasons.join(" ")).toMatch(/without drift sit at the vertex 0/);
     expect(of(p, "diameter").limitLaw).toBe("non-normal");
   });
-  it("two walks with the same non-zero drift (repeated vertex) -> non-normal", () => {
+  it("two walks with the same non-zero drift (repeated vertex) -> non-normal perimeter, diameter a Gaussian maximum", () => {
     const p = run([g([1, 0]), g([1, 0], [[2, 0], [0, 1]])], ["perimeter", "diameter"]);
     expect(of(p, "perimeter").limitLaw).toBe("non-normal");
     expect(of(p, "perimeter").reasons.join(" ")).toMatch(/repeated vertex/);
-    expect(of(p, "diameter").limitLaw).toBe("non-normal");
+    // D_n = max(|S^1_n|, |S^2_n|) + O(1): M = max(X_1x, X_2x), independent with variances 1 and 2 (sec. 7.1).
+    const d = of(p, "diameter");
+    expect(d.limitLaw).toBe("gaussian-maximum");
+    expect(d.reasons.join(" ")).toMatch(/repeated vertex/);
+    expect(d.gaussianMaximum!.covariance).toEqual([[1, 0], [0, 2]]);
+    // Two forms: E M = sqrt(Var(W1 - W2)/(2 pi)), Var M = (s1^2 + s2^2)/2 - Var(W1 - W2)/(2 pi) (docs/theory.md sec. 7.1).
+    expect(d.gaussianMaximum!.mean).toBeCloseTo(Math.sqrt(3 / (2 * Math.PI)), 14);
+    expect(d.varianceLimit).toBeCloseTo(1.5 - 3 / (2 * Math.PI), 14);
   });
   it("collinear drifts (P a segment) -> unknown for the perimeter", () => {
     for (const drifts of [[[1, 0], [2, 0]], [[1, 0], [-1, 0]]] as Vec2[][]) {
@@ -64,16 +71,41 @@ describe("When the normal limit fails (docs/theory.md sec. 12)", () => {
     const onEdge = run([g([1, 0]), g([-1, 0]), g([0, 1])], ["area"]);
     expect(of(onEdge, "area").limitLaw).toBe("non-normal");
   });
-  it("ties for the farthest pair (equilateral drifts) -> non-normal; a near-tie is a risk", () => {
+  it("ties for the farthest pair (equilateral drifts) -> gaussian-maximum; a near-tie is a risk", () => {
     const tri = [0, 1, 2].map((i) => g([Math.cos((2 * Math.PI * i) / 3), Math.sin((2 * Math.PI * i) / 3)]));
     const p = run(tri, ["diameter", "perimeter"]);
-    expect(of(p, "diameter").limitLaw).toBe("non-normal");
+    expect(of(p, "diameter").limitLaw).toBe("gaussian-maximum");
     expect(of(p, "diameter").reasons.join(" ")).toMatch(/tie for the farthest pair/);
+    // Three forms e_ab'(X_a - X_b), Sigma = I: variances 2, covariances 1/2 (the pairs' directions meet at 60 degrees).
+    const C = of(p, "diameter").gaussianMaximum!.covariance;
+    C.forEach((row, i) => row.forEach((v, j) => expect(v).toBeCloseTo(i === j ? 2 : 0.5, 12)));
     expect(of(p, "perimeter").limitLaw).toBe("normal");
     const near = [0, 1, 2].map((i) => g([1.003 * Math.cos((2 * Math.PI * i) / 3 + 0.002 * i), Math.sin((2 * Math.PI * i) / 3)]));
     const q = run(near, ["diameter"]);
     expect(of(q, "diameter").limitLaw).toBe("normal");
     expect(of(q, "diameter").reasons.join(" ")).toMatch(/near-tie .*slow-convergence risk/);
+  });
+  it("a tie with the origin as a vertex (|mu_1| = |mu_2| = |mu_1 - mu_2|): the origin contributes no X", () => {
+    const p = run([g([1, 0]), g([0.5, Math.sqrt(3) / 2])], ["diameter"]);
+    const d = of(p, "diameter");
+    expect(d.limitLaw).toBe("gaussian-maximum");
+    expect(d.meanGrowth).toBeCloseTo(1, 12);
+    const forms = d.gaussianMaximum!.forms;
+    expect(forms.length).toBe(3);
+    expect(forms.filter((f) => f.walks.includes(null)).length).toBe(2);
+    // Forms u_1'X_1, u_2'X_2 (from the origin; independent walks) and e_12'(X_1 - X_2): variances 1, 1, 2;
+    // covariance 0 between the first two, 1/2 with the third (unit vectors at 60 degrees).
+    const C = d.gaussianMaximum!.covariance;
+    const expected = [[1, 0, 0.5], [0, 1, 0.5], [0.5, 0.5, 2]];
+    C.forEach((row, i) => row.forEach((v, j) => expect(v).toBeCloseTo(expected[i][j], 12)));
+    // E max depends only on the distances E(W_i - W_j)^2 = 2 (all pairs), as for three independent standard
+    // normals: E M = 3/(2 sqrt(pi)) (E max of three standard normals, common practice).
+    expect(d.gaussianMaximum!.mean).toBeCloseTo(3 / (2 * Math.sqrt(Math.PI)), 9);
+  });
+  it("a tie whose origin vertex holds a zero-drift walk stays non-normal, law not computed", () => {
+    const p = run([g([1, 0]), g([0.5, Math.sqrt(3) / 2]), g([0, 0])], ["diameter"]);
+    expect(of(p, "diameter").limitLaw).toBe("non-normal");
+    expect(of(p, "diameter").reasons.join(" ")).toMatch(/law not computed/);
   });
   it("sigma^2 = 0 (steps constant along the relevant direction) -> degenerate", () => {
     const p = run([g([1, 0], [[0, 0], [0, 1]])], ["perimeter", "diameter"]);
