@@ -92,7 +92,8 @@ export class BlockCollector {
       blocks,
       blockCount: blockCount(this.suite),
       results: resultRecords(this.suite, blocks, this.min, this.max),
-      sample: keptToSample(this.compactKept(), this.dim),
+      // At most MAX_KEPT candidates: all of them are kept, and the hash order is not needed.
+      sample: keptToSample(this.keptCount <= MAX_KEPT ? this.kept : this.compactKept(), this.dim),
       min: this.min,
       max: this.max,
       wallSeconds,

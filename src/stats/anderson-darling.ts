@@ -26,7 +26,11 @@ export interface AndersonDarlingResult {
 
 /** A^2, A* and the p-value for a sample of at least 8 values. */
 export function andersonDarlingNormal(x: ArrayLike<number>): AndersonDarlingResult {
-  const s = sortedCopy(x);
+  return andersonDarlingNormalSorted(sortedCopy(x));
+}
+
+/** andersonDarlingNormal of a sample already in ascending order (e.g. sortedCopy's result). */
+export function andersonDarlingNormalSorted(s: ArrayLike<number>): AndersonDarlingResult {
   const m = s.length;
   if (m < 8) throw new Error(`sample: Anderson-Darling needs at least 8 values, got ${m}`);
   const { mean, sd } = meanSd(s);

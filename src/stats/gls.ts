@@ -90,6 +90,8 @@ export interface PowerLawOptions {
   level?: number;
   /** Number of jackknife blocks that estimated `cov` (enables the Hartlap factor). */
   blocks?: number;
+  /** false: skip the profile intervals (s2Interval NaN, betaInterval null) when only the estimate is read. */
+  intervals?: boolean;
 }
 
 function validate(n: ArrayLike<number>, y: ArrayLike<number>, cov: ArrayLike<number>): number {
@@ -100,23 +102,54 @@ function validate(n: ArrayLike<number>, y: ArrayLike<number>, cov: ArrayLike<num
   return m;
 }
 
-/** chi2 of the model with given beta, minimised over (s2, c) or, when s2 is given, over c only. */
-function chi2At(n: ArrayLike<number>, y: ArrayLike<number>, w: Float64Array, beta: number, s2?: number): { chi2: number; s2: number; c: number; s2SE: number } {
-  const m = n.length;
-  const xb = Float64Array.from({ length: m }, (_, i) => Math.pow(n[i], -beta));
-  if (s2 === undefined) {
+/**
+ * chi2 of the model y = s2 + c n^-beta for given beta, minimised over (s2, c) or, when s2 is given,
+ * over c only. The profile interval of s2 asks for ~10^4 of these on one data set, so the powers
+ * n^-beta and x' W x are kept per beta (the same numbers as computed afresh: the same operations).
+ */
+class PowerLawChi2 {
+  private readonly cache = new Map<number, { xb: Float64Array; xwx: number }>();
+  private readonly r: Float64Array;
+
+  constructor(readonly n: ArrayLike<number>, readonly y: ArrayLike<number>, readonly w: Float64Array) {
+    this.r = new Float64Array(n.length);
+  }
+
+  private powers(beta: number): { xb: Float64Array; xwx: number } {
+    let hit = this.cache.get(beta);
+    if (!hit) {
+      const m = this.n.length;
+      const xb = Float64Array.from({ length: m }, (_, i) => Math.pow(this.n[i], -beta));
+      hit = { xb, xwx: quadForm(this.w, m, xb) };
+      if (this.cache.size >= 4096) this.cache.clear();
+      this.cache.set(beta, hit);
+    }
+    return hit;
+  }
+
+  /** Over (s2, c). */
+  full(beta: number): { chi2: number; s2: number; c: number; s2SE: number } {
+    const m = this.n.length;
+    const { xb } = this.powers(beta);
     const design = new Float64Array(2 * m);
     for (let i = 0; i < m; i++) {
       design[2 * i] = 1;
       design[2 * i + 1] = xb[i];
     }
-    const g = linearGls(y, design, 2, w);
+    const g = linearGls(this.y, design, 2, this.w);
     return { chi2: g.chi2, s2: g.coef[0], c: g.coef[1], s2SE: Math.sqrt(g.coefCov[0]) };
   }
-  const r = Float64Array.from({ length: m }, (_, i) => y[i] - s2);
-  const c = quadForm(w, m, xb, r) / quadForm(w, m, xb);
-  for (let i = 0; i < m; i++) r[i] -= c * xb[i];
-  return { chi2: quadForm(w, m, r), s2, c, s2SE: NaN };
+
+  /** Over c only, s2 given: the chi2. */
+  givenS2(beta: number, s2: number): number {
+    const m = this.n.length;
+    const { xb, xwx } = this.powers(beta);
+    const r = this.r;
+    for (let i = 0; i < m; i++) r[i] = this.y[i] - s2;
+    const c = quadForm(this.w, m, xb, r) / xwx;
+    for (let i = 0; i < m; i++) r[i] -= c * xb[i];
+    return quadForm(this.w, m, r);
+  }
 }
 
 /** Minimises f on [lo, hi]: grid of step `step`, then golden section around the best point. */
@@ -174,6 +207,9 @@ function rootsAround(g: (t: number) => number, t0: number, scale: number): [numb
     }
     for (let i = 0; i < 80; i++) {
       const mid = 0.5 * (inner + outer);
+      // Adjacent floating-point numbers: mid is an end whose side is known (t0 itself is not evaluated),
+      // so every further step would leave both ends as they are.
+      if (mid === outer || (mid === inner && inner !== t0)) break;
       if (g(mid) <= 0) inner = mid;
       else outer = mid;
     }
@@ -190,14 +226,15 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
   const betaMax = opts.betaMax ?? 2;
   const level = opts.level ?? 0.95;
   const w = weightMatrix(cov, m, opts.blocks);
-  const best = minimise1d((b) => chi2At(n, y, w, b).chi2, betaMin, betaMax);
-  const at = chi2At(n, y, w, best.x);
+  const model = new PowerLawChi2(n, y, w);
+  const best = minimise1d((b) => model.full(b).chi2, betaMin, betaMax);
+  const at = model.full(best.x);
   const q = chiSquareQuantile(level, 1);
   const chi2Min = best.fx;
   const betaInterval: [number, number] = [betaMin, betaMax];
-  const prof = (b: number) => chi2At(n, y, w, b).chi2 - chi2Min - q;
+  const prof = (b: number) => model.full(b).chi2 - chi2Min - q;
   // beta interval: scan the grid from beta_hat outwards to the first crossing, then bisect.
-  for (const dir of [-1, 1]) {
+  for (const dir of opts.intervals === false ? [] : [-1, 1]) {
     let inner = best.x;
     const stepB = 0.005;
     let found = false;
@@ -207,6 +244,7 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
         let hi = b;
         for (let i = 0; i < 50; i++) {
           const mid = 0.5 * (lo + hi);
+          if (mid === lo || mid === hi) break; // adjacent numbers: nothing would change any more
           if (prof(mid) > 0) hi = mid;
           else lo = mid;
         }
@@ -218,8 +256,8 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
     }
     if (!found) betaInterval[dir < 0 ? 0 : 1] = dir < 0 ? betaMin : betaMax;
   }
-  const profS2 = (s: number) => minimise1d((b) => chi2At(n, y, w, b, s).chi2, betaMin, betaMax, 0.01).fx - chi2Min - q;
-  const s2Interval = rootsAround(profS2, at.s2, at.s2SE);
+  const profS2 = (s: number) => minimise1d((b) => model.givenS2(b, s), betaMin, betaMax, 0.01).fx - chi2Min - q;
+  const s2Interval: [number, number] = opts.intervals === false ? [NaN, NaN] : rootsAround(profS2, at.s2, at.s2SE);
   const df = m - 3;
   return {
     mode: "profile",
@@ -227,7 +265,7 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
     s2SE: at.s2SE,
     c: at.c,
     beta: best.x,
-    betaInterval,
+    betaInterval: opts.intervals === false ? null : betaInterval,
     s2Interval,
     level,
     chi2: chi2Min,
@@ -244,7 +282,7 @@ export function fitPowerLawFixed(n: ArrayLike<number>, y: ArrayLike<number>, cov
   if (!(beta > 0)) throw new Error(`beta: must be positive, got ${beta}`);
   const level = opts.level ?? 0.95;
   const w = weightMatrix(cov, m, opts.blocks);
-  const at = chi2At(n, y, w, beta);
+  const at = new PowerLawChi2(n, y, w).full(beta);
   const z = Math.sqrt(chiSquareQuantile(level, 1));
   const df = m - 2;
   return {

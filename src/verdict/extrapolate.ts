@@ -354,7 +354,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
       return none(`rate fit impossible (${(e as Error).message}); ratio at the largest n only, bias unknown`);
     }
     const alternatives = [
-      ...tryAlt(`same model ${dropLabel}`, () => fitPowerLawProfile(nR, yR, covR, opts).s2),
+      ...tryAlt(`same model ${dropLabel}`, () => fitPowerLawProfile(nR, yR, covR, { ...opts, intervals: false }).s2),
       ...tryAlt("L + c1 n^-1/2 + c2 n^-1", () => linearFit(nK, y, cov, B, HALF_INTEGER_BASIS).estimate),
     ];
     return finish(

@@ -8,11 +8,11 @@
 // KS distance vs n: a log-log slope is given only over grid points where the distance exceeds
 // 3x its resolution floor 0.87/sqrt(m); otherwise "below resolution".
 
-import { andersonDarlingNormal, type AndersonDarlingResult } from "../stats/anderson-darling.js";
+import { andersonDarlingNormalSorted, type AndersonDarlingResult } from "../stats/anderson-darling.js";
 import { blockJackknife, jackknifeFromReplicates } from "../stats/jackknife.js";
-import { ksNormalDistance, lillieforsPValue } from "../stats/lilliefors.js";
+import { lillieforsPValue, meanSd, sortedCopy } from "../stats/lilliefors.js";
 import { mergeAll, summarize } from "../stats/moments.js";
-import { normalDistance, type NormalDistance } from "../stats/normal-distance.js";
+import { KsDistanceSearch, normalDistanceSorted, type NormalDistance } from "../stats/normal-distance.js";
 import { normalQuantile, normalSf, twoSidedNormalP } from "../stats/normal.js";
 import { linearGls } from "../stats/gls.js";
 import { excessKurtosisZ, skewnessZ } from "../stats/shape.js";
@@ -189,11 +189,13 @@ function leastSquaresIntercept(y: number[], x: number[], k: number, identity: Fl
  */
 export function normalityEvidence(n: number[], samples: ArrayLike<number>[], blocks: MomentState[][], tol: number, alpha: number, logTrend = false): NormalityEvidence {
   const G = n.length;
-  const last = samples[G - 1];
-  const distance = normalDistance(last, tol, alpha);
+  // Each sample sorted once (the distances and Anderson-Darling read the same ascending copy).
+  const sorted = samples.map((x) => sortedCopy(x));
+  const last = sorted[G - 1];
+  const distance = normalDistanceSorted(last, tol, alpha);
   const lillieforsD = distance.momentFit;
   const lillieforsP = lillieforsPValue(lillieforsD, distance.size);
-  const anderson = distance.size >= 8 ? andersonDarlingNormal(last) : { statistic: NaN, modified: NaN, pValue: NaN };
+  const anderson = distance.size >= 8 ? andersonDarlingNormalSorted(last) : { statistic: NaN, modified: NaN, pValue: NaN };
   const merged = summarize(mergeAll(blocks.map((b) => b[G - 1])));
   let skewGrowth: NormalityEvidence["skewGrowth"] = null;
   let skewPersistence: NormalityEvidence["skewPersistence"] = null;
@@ -238,12 +240,11 @@ export function normalityEvidence(n: number[], samples: ArrayLike<number>[], blo
   for (let g = 0; g < G; g++) {
     const m = samples[g].length;
     if (m < 5) continue;
-    let d: number;
-    try {
-      d = ksNormalDistance(samples[g]);
-    } catch {
-      continue;
-    }
+    // The Lilliefors statistic (lilliefors.ts ksNormalDistance, the same number): at the largest n
+    // it is the distance's moment fit; elsewhere one pruned evaluation (normal-distance.ts).
+    const { mean, sd } = meanSd(sorted[g]);
+    if (!(sd > 0)) continue;
+    const d = g === G - 1 ? distance.momentFit : new KsDistanceSearch(sorted[g]).distance(mean, sd);
     if (d > 3 * (0.87 / Math.sqrt(m))) points.push({ n: n[g], d });
     else below.push(n[g]);
   }

@@ -110,3 +110,42 @@ describe("power-law extrapolation y = s2 + c n^-beta", () => {
     expect(fitPowerLawFixed(n3, y, diag([1e-4, 1e-4, 1e-4]), 0.5).mode).toBe("fixed");
   });
 });
+
+describe("profile fit: fewer evaluations, the same numbers", () => {
+  // Six fixed-seed data sets on a 6-point grid with correlated errors. The expected intervals were
+  // printed by the implementation before the speed-up (commit fdd42e7: chi2 recomputed from scratch
+  // at every beta, 80 / 50 bisection steps); they must come out bit for bit.
+  const grid = [32, 64, 128, 256, 512, 1024];
+  const before: [[number, number], [number, number]][] = [
+    [[6.787085963091506, 6.962919084575212], [0.2347130912759942, 0.7296486951833547]],
+    [[6.774280821375957, 6.832079431783367], [0.5666274340259201, 1.28270219253065]],
+    [[6.769555011719152, 6.84930401061415], [0.31826624946763327, 1.673168458166522]],
+    [[6.777183406864607, 6.877384973738026], [0.22104597674666915, 2]],
+    [[6.778918846379531, 6.825742776450946], [0.5385285376114692, 2]],
+    [[6.752586671108071, 6.952018449566603], [0.1, 2]],
+  ];
+  const rng = seedrandom("gls-profile-oracle");
+  const cases = before.map((_, c) => {
+    const m = grid.length;
+    const cov = new Float64Array(m * m);
+    for (let i = 0; i < m; i++) for (let j = 0; j < m; j++) cov[i * m + j] = 1e-4 * Math.pow(0.6, Math.abs(i - j)) * (1 + 0.1 * c);
+    const y = grid.map((n) => 6.8 - 2.5 * Math.pow(n, -0.7 - 0.1 * c) + 0.01 * gaussian(rng));
+    return { cov, y };
+  });
+  it("profile intervals of s2 and beta equal the pre-speed-up values exactly", () => {
+    cases.forEach(({ cov, y }, c) => {
+      const f = fitPowerLawProfile(grid, y, cov, { blocks: 64 });
+      expect(f.s2Interval).toEqual(before[c][0]);
+      expect(f.betaInterval).toEqual(before[c][1]);
+    });
+  });
+  it("intervals: false skips only the intervals (estimate, rate and misfit unchanged)", () => {
+    for (const { cov, y } of cases) {
+      const full = fitPowerLawProfile(grid, y, cov, { blocks: 64 });
+      const lean = fitPowerLawProfile(grid, y, cov, { blocks: 64, intervals: false });
+      expect([lean.s2, lean.s2SE, lean.c, lean.beta, lean.chi2, lean.pValue]).toEqual([full.s2, full.s2SE, full.c, full.beta, full.chi2, full.pValue]);
+      expect(lean.betaInterval).toBeNull();
+      expect(lean.s2Interval.every(Number.isNaN)).toBe(true);
+    }
+  });
+});

@@ -1,0 +1,68 @@
+import { describe, expect, it } from "vitest";
+import seedrandom from "seedrandom";
+import { ksDistanceSorted, ksNormalDistance, meanSd, sortedCopy } from "../../src/stats/lilliefors.js";
+import { KsDistanceSearch, normalDistance, normalDistanceSorted } from "../../src/stats/normal-distance.js";
+import { andersonDarlingNormal, andersonDarlingNormalSorted } from "../../src/stats/anderson-darling.js";
+
+function gaussian(rng: () => number): number {
+  const u = 1 - rng();
+  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * rng());
+}
+
+// Fixed-seed samples: normal, skewed, values rounded to a grid (ties, fewer than half tied),
+// a lattice (almost all tied), heavy tails, and tiny samples.
+function samples(): { name: string; x: number[] }[] {
+  const rng = seedrandom("pruned-ks");
+  const draw = (m: number, f: () => number) => Array.from({ length: m }, f);
+  return [
+    { name: "normal 50000", x: draw(50000, () => 10 + 3 * gaussian(rng)) },
+    { name: "chi-square-like 20000", x: draw(20000, () => gaussian(rng) ** 2 + 0.5 * gaussian(rng)) },
+    { name: "rounded to 0.01 (some ties)", x: draw(30000, () => Math.round(100 * gaussian(rng)) / 100) },
+    { name: "lattice (all tied)", x: draw(20000, () => Math.round(3 * gaussian(rng))) },
+    { name: "heavy tails", x: draw(10000, () => gaussian(rng) / Math.max(0.05, Math.abs(gaussian(rng)))) },
+    { name: "m = 5", x: draw(5, () => gaussian(rng)) },
+    { name: "m = 37", x: draw(37, () => gaussian(rng)) },
+  ];
+}
+
+describe("pruned KS distance (KsDistanceSearch) = the plain loop, bit for bit", () => {
+  it("at random (mu, sigma) near and far from the moment fit, in sequence on one sample", () => {
+    const rng = seedrandom("probes");
+    for (const { x } of samples()) {
+      const s = sortedCopy(x);
+      const { mean, sd } = meanSd(s);
+      const search = new KsDistanceSearch(s);
+      for (let k = 0; k < 150; k++) {
+        const spread = k < 50 ? 1 : k < 100 ? 0.05 : 1e-4;
+        const mu = mean + spread * sd * gaussian(rng);
+        const sigma = sd * Math.exp(spread * gaussian(rng));
+        expect(search.distance(mu, sigma)).toBe(ksDistanceSorted(s, mu, sigma));
+      }
+    }
+  });
+
+  it("saves Phi evaluations on a large sample near the minimum (the reason it exists)", () => {
+    const rng = seedrandom("savings");
+    const s = sortedCopy(Array.from({ length: 100000 }, () => gaussian(rng)));
+    const { mean, sd } = meanSd(s);
+    const search = new KsDistanceSearch(s);
+    for (let k = 0; k < 100; k++) search.distance(mean + 0.01 * sd * gaussian(rng), sd * Math.exp(0.01 * gaussian(rng)));
+    // The plain loop makes 100 x 100,000 evaluations.
+    expect(search.evaluations).toBeLessThan(0.2 * 100 * 100000);
+  });
+
+  it("normalDistance (minimiser on the pruned search) equals the same minimiser on the plain loop, every field", () => {
+    for (const { name, x } of samples()) {
+      const s = sortedCopy(x);
+      const fast = normalDistanceSorted(s, 0.01, 0.01);
+      const plain = normalDistanceSorted(s, 0.01, 0.01, true);
+      expect(fast, name).toEqual(plain);
+      expect(normalDistance(x, 0.01, 0.01), name).toEqual(fast);
+      expect(fast.momentFit, name).toBe(ksNormalDistance(x));
+    }
+  });
+
+  it("the sorted-input entry points equal the unsorted ones", () => {
+    for (const { x } of samples().filter((c) => c.x.length >= 8)) expect(andersonDarlingNormalSorted(sortedCopy(x))).toEqual(andersonDarlingNormal(x));
+  });
+});
