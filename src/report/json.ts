@@ -29,7 +29,7 @@ export interface Provenance {
   wallSeconds: number;
 }
 
-import type { VerdictReport } from "../verdict/types.js";
+import type { LinearisationReport, VerdictReport } from "../verdict/types.js";
 import type { PointEstimate } from "../verdict/estimates.js";
 
 export interface Report {
@@ -48,6 +48,8 @@ export interface Report {
    * and the variance-reduction factors (plain SE^2 / control-variate SE^2).
    */
   controlVariates?: PointEstimate[];
+  /** Claimed and predicted linearisations as checked (docs/theory.md sec. 6.1). */
+  linearisations?: LinearisationReport[];
   /** What decided the exit code: failures, user claims left undecided, Holm family sizes, tolerance. */
   verdictSummary?: { failed: number; undecidedClaims: { id: string; pathsToDecide: number | null | undefined }[]; familySizes: { claims: number; predictions: number } | null; tolerance: number | null; alpha: number };
   /** Covariance between measures at each n (over the kept measures of the suite). */
@@ -132,6 +134,7 @@ export function buildReport(
     ...(extra.predictions ? { predictions: extra.predictions } : {}),
     ...(extra.verdicts ? { checks: extra.verdicts.checks, limits: extra.verdicts.limits } : {}),
     ...(extra.verdicts?.estimates ? { controlVariates: extra.verdicts.estimates } : {}),
+    ...(extra.verdicts?.linearisations ? { linearisations: extra.verdicts.linearisations } : {}),
     ...(extra.verdicts
       ? {
           verdictSummary: {

@@ -9,6 +9,7 @@ import {
   LAW_NAMES,
   MEASURES,
   type Claim,
+  type Linearisation,
   type LoadedSuite,
   type Mat2,
   type Measure,
@@ -57,7 +58,7 @@ const LAW_KEYS: Record<string, string[]> = {
   empirical: ["law", "file"],
 };
 const CLAIM_KEYS = new Set([
-  "measure", "varianceLimit", "meanGrowth", "limitLaw", "n", "mean", "varianceScaling", "meanScaling", "label", "tolerance",
+  "measure", "varianceLimit", "meanGrowth", "limitLaw", "n", "mean", "varianceScaling", "meanScaling", "label", "tolerance", "linearisation",
 ]);
 
 export interface SuiteOverrides {
@@ -293,10 +294,30 @@ function validateClaim(raw: unknown, at: string, suite: Suite): Claim {
     c.n = asInteger(o.n, `${at}.n`, 1, 2 ** 31 - 1);
     if (!suite.n.includes(c.n)) throw new SuiteError(`${at}.n`, `${c.n} is not on the suite's grid n = [${suite.n.join(", ")}]`);
   }
-  if (c.varianceLimit === undefined && c.meanGrowth === undefined && c.limitLaw === undefined && c.mean === undefined) {
-    throw new SuiteError(at, "claims nothing: give varianceLimit, meanGrowth, limitLaw, or n with mean");
+  if (o.linearisation !== undefined) c.linearisation = validateLinearisation(o.linearisation, `${at}.linearisation`, suite.walks.length);
+  if (c.varianceLimit === undefined && c.meanGrowth === undefined && c.limitLaw === undefined && c.mean === undefined && c.linearisation === undefined) {
+    throw new SuiteError(at, "claims nothing: give varianceLimit, meanGrowth, limitLaw, linearisation, or n with mean");
   }
   return c;
+}
+
+function validateLinearisation(raw: unknown, at: string, walks: number): Linearisation {
+  const o = asObject(raw, at);
+  for (const k of Object.keys(o)) {
+    if (k !== "endpoint" && k !== "path") throw new SuiteError(`${at}.${k}`, `unknown linearisation field${suggest(k, ["endpoint", "path"])}`);
+  }
+  if (o.endpoint === undefined) throw new SuiteError(`${at}.endpoint`, "missing: one gradient [x, y] per walk");
+  const vectors = (v: unknown, field: string): Vec2[] => {
+    if (!Array.isArray(v)) throw new SuiteError(field, `must be an array of ${walks} [x, y] pairs (one per walk)`);
+    if (v.length !== walks) throw new SuiteError(field, `has ${v.length} entries; the suite has ${walks} walk${walks === 1 ? "" : "s"} (one [x, y] per walk)`);
+    return v.map((g, j) => {
+      if (!Array.isArray(g) || g.length !== 2) throw new SuiteError(`${field}[${j}]`, "must be a pair [x, y]");
+      return [asNumber(g[0], `${field}[${j}][0]`, {}), asNumber(g[1], `${field}[${j}][1]`, {})] as Vec2;
+    });
+  };
+  const out: Linearisation = { endpoint: vectors(o.endpoint, `${at}.endpoint`) };
+  if (o.path !== undefined) out.path = vectors(o.path, `${at}.path`);
+  return out;
 }
 
 function asObject(v: unknown, at: string): Record<string, unknown> {

@@ -60,6 +60,20 @@ export interface Claim {
   label?: string;
   /** Relative precision a pass of this claim's constants must reach (default: the suite's `tolerance`). */
   tolerance?: number;
+  /**
+   * A claimed first-order representation M_n - E M_n = n^((p-1)/2) sum_j g_j . X_n^j
+   * + n^((p-3)/2) sum_j h_j . Y_n^j + o(n^(p/2)), with X_n^j = S_n^j - n mu_j (centred endpoint),
+   * Y_n^j = sum_{i<=n} (S_i^j - i mu_j) (centred integrated path) and p the measure's variance
+   * scaling (1 for perimeter and diameter with drift, 3 for the area with drift). `endpoint` holds
+   * g_j, one [x, y] per walk; `path` (optional) holds h_j. Checked by src/verdict/linearisation.ts.
+   */
+  linearisation?: Linearisation;
+}
+
+/** The coefficients of a claimed linearisation, one [x, y] per walk. */
+export interface Linearisation {
+  endpoint: Vec2[];
+  path?: Vec2[];
 }
 
 export interface Suite {

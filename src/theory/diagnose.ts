@@ -199,6 +199,7 @@ function diagnosePerimeter(c: Context): Diagnosis {
   } else {
     d.limitLaw = "normal";
     d.reasons.push(`drifts in general position: (L_n - E L_n)/sqrt(n) -> N(0, ${fmt(sigma2)})`);
+    d.linearisation = { endpoint: perWalk.map((g) => g ?? [0, 0]) };
   }
   d.reasons.push(...nearTieRisks(c));
   return d;
@@ -235,6 +236,13 @@ function diagnoseDiameter(c: Context): Diagnosis {
   } else {
     d.limitLaw = "normal";
     d.reasons.push(`(D_n - E D_n)/sqrt(n) -> N(0, ${fmt(dv.sigma2)})`);
+    // D_n ~ |S^a_n - S^b_n| ~ n |a - b| + e . (X^a_n - X^b_n): +e for the walk at a, -e at b.
+    const endpoint: Vec2[] = c.drifts.map(() => [0, 0]);
+    for (const [p, sign] of [[dv.pair.a, 1], [dv.pair.b, -1]] as const) {
+      const ws = p === 0 ? [] : walksAt(dv.P, p, c.tol.tie);
+      if (ws.length > 0) endpoint[ws[0]] = [sign * dv.e[0], sign * dv.e[1]];
+    }
+    d.linearisation = { endpoint };
   }
   if (dv.pair.gap <= c.tol.nearTie) d.reasons.push(`near-tie for the farthest pair (relative gap ${fmt(dv.pair.gap)} <= near-tie tolerance ${c.tol.nearTie}): slow-convergence risk`);
   return d;
@@ -379,7 +387,7 @@ function diagnoseArea(c: Context): Diagnosis {
     d.reasons.push(bp);
     return d;
   }
-  const { sigma2 } = linearisedVariance(P, areaGradients(P), c.covs, c.tol.tie);
+  const { sigma2, perWalk } = linearisedVariance(P, areaGradients(P), c.covs, c.tol.tie);
   d.varianceLimit = sigma2;
   d.varianceLimitKind = "derived";
   const scale = c.covs.reduce((s, cv) => s + cv[0][0] + cv[1][1], 0) * P.scale * P.scale;
@@ -389,6 +397,7 @@ function diagnoseArea(c: Context): Diagnosis {
   } else {
     d.limitLaw = "normal";
     d.reasons.push(`0 interior to P: only the endpoints matter to first order; (A_n - E A_n)/n^{3/2} -> N(0, ${fmt(sigma2)}) [derived; variance limit checked by simulation, docs/theory.md sec. 14]`);
+    d.linearisation = { endpoint: perWalk.map((g) => g ?? [0, 0]) };
   }
   const nearBoundary = locate(poly, [0, 0], c.tol.nearTie);
   if (nearBoundary !== "interior") d.reasons.push("0 is near the boundary of P: slow-convergence risk");

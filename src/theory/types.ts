@@ -1,7 +1,7 @@
 // What the prediction stage hands to the verdict stage and to `walkhull predict --json`.
 // The field names of MeasurePrediction are a contract (the prediction issue): add, never rename.
 
-import type { Measure, Vec2 } from "../suite/schema.js";
+import type { Linearisation, Measure, Vec2 } from "../suite/schema.js";
 
 export type LimitLaw = "normal" | "non-normal" | "degenerate" | "unknown" | "gaussian-maximum";
 export type ConstantKind = "theorem" | "derived" | "estimate";
@@ -36,6 +36,11 @@ export interface MeasurePrediction {
   sources: string[];
   /** True when variance-based checks are not calibrated (e.g. steps without a 4th moment). */
   varianceUncalibrated?: boolean;
+  /**
+   * The first-order representation behind varianceLimit, when the theory notes give one
+   * (docs/theory.md sec. 6.1): M_n - E M_n = n^((p-1)/2) sum_j g_j . X_n^j + o(n^(p/2)), endpoint[j] = g_j.
+   */
+  linearisation?: Linearisation | null;
   /** Human-readable rows for the table: quantity, value, hypotheses, verdict, source. */
   rows?: PredictionRow[];
   /** With limitLaw "gaussian-maximum" (a farthest-pair tie of the diameter, docs/theory.md sec. 7.1): the law of M. */

@@ -25,7 +25,9 @@ import { extrapolate, LEVEL, plainRatios, type Extrapolation } from "./extrapola
 import { lawDecision, normalityEvidence, type LawDecision, type NormalityEvidence } from "./normality.js";
 import { estimateMeasures, scaledSeries, type MeasureEstimates, type PointEstimate } from "./estimates.js";
 import { insideBand, pathsToDecide, toleranceBand } from "./decide.js";
-import type { Check, CheckKind, LimitEstimate, Verdict, VerdictReport } from "./types.js";
+import { extrapolateCoefficient, extrapolateRemainder, linearisationEvidence, remainderDecision } from "./linearisation.js";
+import type { Check, CheckKind, LimitEstimate, LinearisationReport, Verdict, VerdictReport } from "./types.js";
+import type { Linearisation } from "../suite/schema.js";
 
 export type { Check, CheckKind, LimitEstimate, Verdict, VerdictReport } from "./types.js";
 export { renderChecks } from "./render.js";
@@ -38,7 +40,7 @@ interface Pending {
   otherwise: Verdict;
   family: Family;
   /** For constants: the value, tolerance, decision interval and what decides it (set when gated). */
-  constant?: { value: number; tolerance: number; interval: [number, number]; seStat: number; seStatWide?: number; seSyst: number; paths: number; estimate: number };
+  constant?: { value: number; tolerance: number; interval: [number, number]; seStat: number; seStatWide?: number; seSyst: number; paths: number; estimate: number; scale?: number };
 }
 
 const fmt = (x: number | null | undefined, digits = 6): string =>
@@ -143,15 +145,18 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
   };
 
   // --- limits (variance, mean growth) ----------------------------------------------------------
+  // `other`: a constant that is not a variance or mean limit (a linearisation coefficient), with its
+  // own extrapolation, check kind, series name and tolerance scale (the norm of its vector).
   const limitCheck = (
     measure: Measure, quantity: "varianceLimit" | "meanGrowth", scaling: number, value: number, id: string, source: string,
     constantKind: string | null, uncalibrated: boolean, family: Family, tol: number,
+    other?: { ex: Extrapolation; kind: CheckKind; name: string; scale: number },
   ) => {
-    const ex = getExtrapolation(measure, quantity, scaling);
+    const ex = other?.ex ?? getExtrapolation(measure, quantity, scaling);
     const L = ex.limit;
     const t = ex.test(value);
-    const power = quantity === "varianceLimit" ? `Var/n^${scaling}` : `mean/n^${scaling}`;
-    const base = { id, measure, n: null, kind: quantity as CheckKind, source, estimate: L.estimate, expected: value, statistic: t.statistic, ci: L.ci };
+    const power = other?.name ?? (quantity === "varianceLimit" ? `Var/n^${scaling}` : `mean/n^${scaling}`);
+    const base = { id, measure, n: null, kind: other?.kind ?? (quantity as CheckKind), source, estimate: L.estimate, expected: value, statistic: t.statistic, ci: L.ci };
     const method = `${L.note}; ${L.level * 100}% interval.`;
     let why: string | null = null;
     if (constantKind !== "theorem" && constantKind !== "derived" && constantKind !== "claim")
@@ -185,7 +190,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
           method,
       },
       "pass", family,
-      { value, tolerance: tol, interval, seStat, seStatWide, seSyst: L.systematic ?? 0, paths: totalPaths, estimate: L.estimate },
+      { value, tolerance: tol, interval, seStat, seStatWide, seSyst: L.systematic ?? 0, paths: totalPaths, estimate: L.estimate, scale: other?.scale },
     );
   };
 
@@ -249,6 +254,48 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
     }
   };
 
+  // --- linearisations (src/verdict/linearisation.ts) -------------------------------------------
+  // Coefficients: constants like any limit (gated in their family, tolerance relative to the norm
+  // of the walk's claimed vector); remainder: decided at level alpha outside the Holm families.
+  const linearisations: LinearisationReport[] = [];
+  const linearisationCheck = (measure: Measure, spec: Linearisation, scaling: number, idBase: string, idTail: string, source: string, constantKind: string | null, uncalibrated: boolean, family: Family, tol: number) => {
+    const fit = linearisationEvidence(sim, measure, spec, scaling, alpha);
+    const ev = fit.evidence;
+    const rep: LinearisationReport = { id: `${idBase}${idTail}`, source, family, tolerance: tol, claimed: spec, ...ev, coefficientLimits: [], remainderDecision: null };
+    linearisations.push(rep);
+    const idOf = (part: string) => `${idBase}.${part}${idTail}`;
+    if (ev.unavailable !== null) {
+      add({ id: idOf("remainder"), measure, n: null, kind: "linearisation", source, estimate: null, expected: "decay rate > 0", statistic: null, pValue: null, ci: null, verdict: "inconclusive", gated: false, detail: `Not decided: ${ev.unavailable}.` }, "inconclusive", family);
+      return;
+    }
+    const norm = (vs: [number, number][] | undefined) => Math.sqrt((vs ?? []).reduce((a, v) => a + v[0] * v[0] + v[1] * v[1], 0));
+    ev.coefficients.forEach((c, i) => {
+      const ex = extrapolateCoefficient(fit, i, grid, sim.blocks.length, expectedRate);
+      const vecs = c.kind === "endpoint" ? spec.endpoint : spec.path;
+      const own = Math.hypot(vecs![c.walk][0], vecs![c.walk][1]);
+      const scale = own > 0 ? own : norm(vecs);
+      const power = c.kind === "endpoint" ? (scaling - 1) / 2 : (scaling - 3) / 2;
+      rep.coefficientLimits.push({ label: c.label, estimate: ex.limit.estimate, ci: ex.limit.ci, note: ex.limit.note });
+      limitCheck(measure, "varianceLimit", scaling, c.claimed, idOf(c.label), source, constantKind, uncalibrated, family, tol, { ex, kind: "linearisation", name: `b(${c.label})/n^${power}`, scale });
+      const ck = pending[pending.length - 1].check;
+      ck.detail = `Coefficient of M_n on ${c.kind === "endpoint" ? "X" : "Y"}_n^${c.walk + 1} along (${c.direction.map((x) => +x.toFixed(4)).join(", ")}), least squares per n (jackknife over blocks, refitted per replicate), divided by n^${power}, extrapolated; claimed ${fmt(c.claimed)}. ${ck.detail}`;
+    });
+    const exR = extrapolateRemainder(fit, grid, sim.blocks.length, expectedRate);
+    const d = remainderDecision(ev, exR, alpha, tol, totalPaths);
+    rep.remainderDecision = d;
+    const rate = ev.rate;
+    add(
+      {
+        id: idOf("remainder"), measure, n: null, kind: "linearisation", source, estimate: rate?.estimate ?? null, expected: "decay rate > 0",
+        statistic: rate && rate.standardError > 0 ? rate.estimate / rate.standardError : null, pValue: null, ci: rate?.ci ?? null, verdict: d.verdict, gated: false,
+        detail: `Remainder R_n = M_n - E M_n - (claimed functional); Var(R_n)/n^${scaling} per n from the block co-moments (jackknife SE), decay rate by GLS of its log on log n, limit extrapolated; decided at level alpha = ${alpha} outside the Holm families. ${d.why}.` +
+          (ev.unidentified.length ? ` Not identifiable: ${ev.unidentified.join("; ")}.` : ""),
+      },
+      d.verdict, family,
+    );
+    pending[pending.length - 1].check.pathsToDecide = d.pathsToDecide;
+  };
+
   // --- predictions ----------------------------------------------------------------------------
   for (const measure of suite.measure) {
     const pred = predFor(measure);
@@ -264,6 +311,8 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
     if (pred.meanGrowth !== null)
       limitCheck(measure, "meanGrowth", pred.meanScaling, pred.meanGrowth, `${measure}.meanGrowth.prediction`, src, pred.meanGrowthKind, false, "predictions", tolerance);
     if (pred.limitLaw !== "degenerate") lawCheck(measure, pred.limitLaw, `${measure}.limitLaw.prediction`, src, pred.reasons, "predictions");
+    if (pred.linearisation)
+      linearisationCheck(measure, pred.linearisation, pred.varianceScaling, `${measure}.linearisation`, ".prediction", src, pred.varianceLimitKind, pred.varianceUncalibrated === true, "predictions", tolerance);
   }
 
   // --- user claims ----------------------------------------------------------------------------
@@ -290,6 +339,10 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
       limitCheck(claim.measure, "meanGrowth", claim.meanScaling ?? pred?.meanScaling ?? 1, claim.meanGrowth, `${claim.measure}.meanGrowth.${field}`, src, "claim", false, "claims", claimTol);
     }
     if (claim.limitLaw !== undefined) lawCheck(claim.measure, claim.limitLaw, `${claim.measure}.limitLaw.${field}`, src, [], "claims");
+    if (claim.linearisation !== undefined) {
+      if (claim.linearisation.endpoint.length !== suite.walks.length) throw new Error(`${field}.linearisation.endpoint: ${claim.linearisation.endpoint.length} gradients for ${suite.walks.length} walks`);
+      linearisationCheck(claim.measure, claim.linearisation, claim.varianceScaling ?? pred?.varianceScaling ?? 1, `${claim.measure}.linearisation`, `.${field}`, src, "claim", uncalibrated, "claims", claimTol);
+    }
   });
 
   // --- limits shown whatever was claimed -------------------------------------------------------
@@ -323,11 +376,12 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
         p.check.verdict = p.otherwise;
         return;
       }
-      const band = toleranceBand(c.value, c.tolerance);
+      const band = toleranceBand(c.value, c.tolerance, c.scale);
+      const bandText = c.scale === undefined ? `value x (1 +- ${c.tolerance})` : `value +- ${c.tolerance} x ${fmt(c.scale, 4)} (the norm of its vector)`;
       const containsValue = c.interval[0] <= c.value && c.value <= c.interval[1];
       if (containsValue && insideBand(c.interval, band)) {
         p.check.verdict = "pass";
-        p.check.detail += ` PASS: the ${(100 * (1 - alpha)).toFixed(0)}% decision interval [${fmt(c.interval[0])}, ${fmt(c.interval[1])}] lies within value x (1 +- ${c.tolerance}) = [${fmt(band[0])}, ${fmt(band[1])}].`;
+        p.check.detail += ` PASS: the ${(100 * (1 - alpha)).toFixed(0)}% decision interval [${fmt(c.interval[0])}, ${fmt(c.interval[1])}] lies within ${bandText} = [${fmt(band[0])}, ${fmt(band[1])}].`;
         return;
       }
       p.check.verdict = "inconclusive";
@@ -335,7 +389,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
       p.check.pathsToDecide = decide.paths;
       const state = !containsValue
         ? `the value lies outside the ${(100 * (1 - alpha)).toFixed(0)}% decision interval [${fmt(c.interval[0])}, ${fmt(c.interval[1])}] but is not rejected after Holm (adjusted p = ${fmtP(h.adjusted[r])})`
-        : `the ${(100 * (1 - alpha)).toFixed(0)}% decision interval [${fmt(c.interval[0])}, ${fmt(c.interval[1])}] is not within value x (1 +- ${c.tolerance}) = [${fmt(band[0])}, ${fmt(band[1])}]`;
+        : `the ${(100 * (1 - alpha)).toFixed(0)}% decision interval [${fmt(c.interval[0])}, ${fmt(c.interval[1])}] is not within ${bandText} = [${fmt(band[0])}, ${fmt(band[1])}]`;
       p.check.detail += ` INCONCLUSIVE: ${state}; ${decide.why}.`;
     });
   }
@@ -348,5 +402,6 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
     undecidedClaims: undecided.map((c) => ({ id: c.id, pathsToDecide: c.pathsToDecide })),
     familySizes: familySize,
     estimates: pointEstimates,
+    ...(linearisations.length ? { linearisations } : {}),
   };
 }

@@ -13,6 +13,8 @@ export interface DecisionBasis {
   value: number;
   /** Relative tolerance of a pass. */
   tolerance: number;
+  /** What the tolerance is relative to (default |value|; a coefficient uses the norm of its vector). */
+  scale?: number;
   estimate: number;
   /** Statistical standard error (after any misfit scaling) on the side facing the value (for a fail), and systematic (model) standard error. */
   seStat: number;
@@ -26,9 +28,9 @@ export interface DecisionBasis {
   zFail: number;
 }
 
-/** The band a pass interval must lie in. */
-export function toleranceBand(value: number, tolerance: number): [number, number] {
-  const w = tolerance * Math.abs(value);
+/** The band a pass interval must lie in: value +- tolerance x scale (default scale |value|). */
+export function toleranceBand(value: number, tolerance: number, scale = Math.abs(value)): [number, number] {
+  const w = tolerance * scale;
   return [value - w, value + w];
 }
 
@@ -42,7 +44,7 @@ export function insideBand(interval: [number, number], band: [number, number]): 
  */
 export function pathsToDecide(b: DecisionBasis): { paths: number | null; why: string } {
   const d = Math.abs(b.estimate - b.value);
-  const halfBand = b.tolerance * Math.abs(b.value);
+  const halfBand = b.tolerance * (b.scale ?? Math.abs(b.value));
   const s2 = b.seSyst * b.seSyst;
   if (!(b.seStat > 0) || !Number.isFinite(b.seStat)) return { paths: null, why: "the statistical standard error is unknown" };
   const need: number[] = [];

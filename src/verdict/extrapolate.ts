@@ -53,6 +53,10 @@ export interface ScaledSeries {
   /** Number of blocks behind the covariance (the GLS weight's degrees of freedom). */
   blocks: number;
   expectedRate: number;
+  /** A quantity that may be negative (a regression coefficient): no "negative variance" rule. */
+  signed?: boolean;
+  /** Name of the series in notes (default "Var/n^p" or "mean/n^q"). */
+  name?: string;
 }
 
 /** The plain ratios of a series from per-block moment states (blocks[b][g]), with their jackknife covariance. */
@@ -118,7 +122,7 @@ export function extrapolate(s: ScaledSeries): Extrapolation {
  * count whose variance grows like log n), never as an estimate, and nothing is tested against it.
  */
 function noNegativeVariance(s: ScaledSeries, ex: Extrapolation): Extrapolation {
-  if (s.quantity !== "varianceLimit" || !(ex.limit.estimate < 0)) return ex;
+  if (s.quantity !== "varianceLimit" || s.signed || !(ex.limit.estimate < 0)) return ex;
   const why = `no limit: the fit extrapolates Var/n^${s.scaling} to ${ex.limit.estimate.toPrecision(3)} < 0, so Var/n^${s.scaling} most likely tends to 0 (the power ${s.scaling} is too large for this measure)`;
   return {
     limit: { ...ex.limit, method: "none", estimate: NaN, standardError: NaN, ci: null, statisticalCi: null, systematic: null, sensitivity: [], note: `${why}; the fit was: ${ex.limit.note}` },
@@ -238,7 +242,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
   const G = nK.length;
   const z = normalQuantile(1 - (1 - LEVEL) / 2);
   const base = { measure: s.measure, quantity: s.quantity, scaling: s.scaling, level: LEVEL, ratios };
-  const what = (s.quantity === "varianceLimit" ? `Var/n^${s.scaling}` : `mean/n^${s.scaling}`) + droppedNote;
+  const what = (s.name ?? (s.quantity === "varianceLimit" ? `Var/n^${s.scaling}` : `mean/n^${s.scaling}`)) + droppedNote;
 
   const none = (note: string): Extrapolation => {
     const last = G - 1;

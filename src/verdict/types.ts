@@ -3,8 +3,10 @@
 
 import type { Measure } from "../suite/schema.js";
 import type { PointEstimate } from "./estimates.js";
+import type { LinearisationEvidence, RemainderDecision } from "./linearisation.js";
+import type { Linearisation } from "../suite/schema.js";
 
-export type CheckKind = "mean" | "varianceLimit" | "meanGrowth" | "limitLaw";
+export type CheckKind = "mean" | "varianceLimit" | "meanGrowth" | "limitLaw" | "linearisation";
 export type Verdict = "pass" | "fail" | "inconclusive" | "confirmed" | "not-yet-visible";
 
 export interface Check {
@@ -92,4 +94,19 @@ export interface VerdictReport {
   familySizes?: { claims: number; predictions: number };
   /** Plain and control-variate estimates of E M_n and Var M_n per measure and n. */
   estimates?: PointEstimate[];
+  /** Every claimed or predicted linearisation: coefficients per n and their limits, the remainder's decay. */
+  linearisations?: LinearisationReport[];
+}
+
+/** One linearisation (a claim or a built-in prediction) as checked; its checks carry ids `${id}.<label>` and `${id}.remainder`. */
+export interface LinearisationReport extends LinearisationEvidence {
+  /** e.g. "perimeter.linearisation.claims[2]" or "perimeter.linearisation.prediction". */
+  id: string;
+  source: string;
+  family: "claims" | "predictions";
+  tolerance: number;
+  claimed: Linearisation;
+  /** Extrapolated limit of each coefficient (same order as `coefficients`), with its total interval at the LEVEL of `limits`. */
+  coefficientLimits: { label: string; estimate: number; ci: [number, number] | null; note: string }[];
+  remainderDecision: RemainderDecision | null;
 }
