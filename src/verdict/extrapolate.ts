@@ -57,6 +57,13 @@ export interface ScaledSeries {
   signed?: boolean;
   /** Name of the series in notes (default "Var/n^p" or "mean/n^q"). */
   name?: string;
+  /**
+   * Let a fit whose rate interval spans the whole range [0.1, 2] decide (its profile interval for L
+   * already maximises over every admissible rate). Used for regression coefficients, whose series
+   * are often flat within noise (no trend to identify a rate from); variance and mean limits keep
+   * the stricter rule (calibrated with it: README "Calibration").
+   */
+  rateFreeDecides?: boolean;
 }
 
 /** The plain ratios of a series from per-block moment states (blocks[b][g]), with their jackknife covariance. */
@@ -307,7 +314,7 @@ function fitKept(s: ScaledSeries, nK: number[], y: number[], se: number[], cov: 
       },
       undecidable: unbounded
         ? "the interval of the limit is unbounded"
-        : rateFree
+        : rateFree && !s.rateFreeDecides
           ? "the rate interval spans the whole allowed range [0.1, 2]: the grid does not constrain the approach to the limit"
           : null,
     };

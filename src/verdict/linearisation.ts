@@ -278,14 +278,14 @@ export function extrapolateCoefficient(fit: LinearisationFit, i: number, n: numb
   const { measure, scaling } = fit.evidence;
   const c = fit.evidence.coefficients[i];
   const { y, cov } = fit.coefficientSeries[i];
-  return extrapolate({ measure, quantity: "varianceLimit", scaling, n, y, cov, blocks, expectedRate, signed: true, name: `b(${c.label})/n^${c.kind === "endpoint" ? (scaling - 1) / 2 : (scaling - 3) / 2}` });
+  return extrapolate({ measure, quantity: "varianceLimit", scaling, n, y, cov, blocks, expectedRate, signed: true, rateFreeDecides: true, name: `b(${c.label})/n^${c.kind === "endpoint" ? (scaling - 1) / 2 : (scaling - 3) / 2}` });
 }
 
 /** Extrapolation of Var(R_n)/n^p (signed, so that a limit estimated slightly below 0 keeps its interval). */
 export function extrapolateRemainder(fit: LinearisationFit, n: number[], blocks: number, expectedRate: number): Extrapolation | null {
   if (!fit.remainderSeries) return null;
   const { y, cov } = fit.remainderSeries;
-  return extrapolate({ measure: fit.evidence.measure, quantity: "varianceLimit", scaling: fit.evidence.scaling, n, y, cov, blocks, expectedRate, signed: true, name: `Var(R_n)/n^${fit.evidence.scaling}` });
+  return extrapolate({ measure: fit.evidence.measure, quantity: "varianceLimit", scaling: fit.evidence.scaling, n, y, cov, blocks, expectedRate, signed: true, rateFreeDecides: true, name: `Var(R_n)/n^${fit.evidence.scaling}` });
 }
 
 /** The verdict on the remainder: does Var(R_n)/n^p vanish? */
