@@ -3,12 +3,13 @@
 // interval of the limit; QQ plot and histogram at the largest n; KS distance vs n (log-log) with
 // its fitted rate; the hull of one sample path. Plot data: src/report/plots.ts.
 
+import { coefficientTable, remainderSummary, remainderSvg, remainderTable } from "./linearisation-view.js";
 import { measureSample } from "../run/series.js";
 import type { Measure } from "../suite/schema.js";
 import type { KeptSample } from "../run/types.js";
 import type { LimitEstimate } from "../verdict/types.js";
 import type { Report } from "./json.js";
-import { CONTROL_VARIATE_NOTE, reportSections, type Table } from "./markdown.js";
+import { CONTROL_VARIATE_NOTE, LINEARISATION_NOTE, reportSections, type Table } from "./markdown.js";
 import { histogramData, histogramSvg, hullSvg, ksSeries, ksSvg, qqData, qqSvg, varianceRatioSvg, varianceSeries, type PathGeometry } from "./plots.js";
 import { reportCss, VERDICT_MARK, type VerdictWord } from "./palette.js";
 import { escapeXml as esc } from "./svg.js";
@@ -113,6 +114,15 @@ export function renderHtml(r: Report, extras: HtmlExtras = {}): string {
   out.push(`<h2>Fitted limits and rates</h2>`);
   if (s.limits.rows.length) out.push(htmlTable(s.limits), `<ul class="details">${s.limitNotes.map((x) => `<li>${esc(x)}</li>`).join("")}</ul>`);
   else out.push(`<p class="note">No limits were estimated.</p>`);
+  const lin = r.linearisations ?? [];
+  if (lin.length) {
+    out.push(`<h2>Linearisations</h2>`, `<p class="note">${esc(LINEARISATION_NOTE)}</p>`);
+    for (const l of lin) {
+      out.push(`<h3>${esc(l.id)}</h3><p class="note">Source: ${esc(l.source)}; tolerance ${l.tolerance} (of the norm of each walk's vector).</p>`);
+      if (l.coefficients.length) out.push(htmlTable(coefficientTable(l)), `<div class="plots">${figure(remainderSvg(l), "Var(R_n)/n^p of the remainder R_n = M_n - E M_n - (claimed functional), log-log, 95% error bars (block jackknife); the fitted power law and the materiality threshold.")}<div>${htmlTable(remainderTable(l))}</div></div>`);
+      out.push(`<p>${esc(remainderSummary(l))}</p>`);
+    }
+  }
   out.push(`<h2>Results</h2>`, htmlTable(s.results));
   if (s.controlVariates.rows.length) out.push(`<h2>Control variates</h2>`, `<p class="note">${esc(CONTROL_VARIATE_NOTE)}</p>`, htmlTable(s.controlVariates));
   out.push(`<h2>Covariance between measures</h2>`);

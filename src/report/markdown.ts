@@ -2,6 +2,7 @@
 // results, the covariance between measures, the provenance and the caveats, as Markdown.
 // Rows shared with the HTML report are built here (`reportSections`).
 
+import { coefficientTable, remainderSummary, remainderTable } from "./linearisation-view.js";
 import type { Report } from "./json.js";
 import type { Check, LimitEstimate } from "../verdict/types.js";
 import type { PointEstimate } from "../verdict/estimates.js";
@@ -158,10 +159,27 @@ export function reportSections(r: Report): Sections {
   };
 }
 
+export const LINEARISATION_NOTE =
+  "M_n - E M_n = n^s sum_j g_j . X_n^j (+ path terms) + R_n, X_n^j = S_n^j - n mu_j: per n the least-squares coefficients of M_n on the claimed controls divided by n^s (jackknife SE), extrapolated to n -> infinity; the remainder's Var(R_n)/n^p, its share of Var(M_n)/n^p and corr(M_n, claimed functional); the decay rate gamma of Var(R_n)/n^p ~ C n^-gamma (docs/theory.md sec. 6.1).";
+
 const cell = (s: string): string => s.replace(/\|/g, "\\|").replace(/\r?\n/g, " ");
 
 export function markdownTable(t: Table): string {
   return [`| ${t.header.map(cell).join(" | ")} |`, `|${t.header.map(() => "---").join("|")}|`, ...t.rows.map((r) => `| ${r.map(cell).join(" | ")} |`)].join("\n");
+}
+
+/** The linearisations section (claims and built-in predictions), empty when there is none. */
+function linearisationMarkdown(r: Report): string[] {
+  const ls = r.linearisations ?? [];
+  if (!ls.length) return [];
+  const out = ["", "## Linearisations", "", LINEARISATION_NOTE, ""];
+  for (const l of ls) {
+    out.push(`### ${l.id}`, "", `Source: ${l.source}; tolerance ${l.tolerance} (of the norm of each walk's vector).`, "");
+    if (l.coefficients.length) out.push(markdownTable(coefficientTable(l)), "", markdownTable(remainderTable(l)), "");
+    out.push(remainderSummary(l), "");
+    if (l.unidentified.length) out.push(`Not identifiable: ${l.unidentified.join("; ")}.`, "");
+  }
+  return out;
 }
 
 /** report.md */
@@ -184,6 +202,7 @@ export function renderMarkdown(r: Report): string {
   out.push("## Fitted limits and rates", "");
   if (s.limits.rows.length) out.push(markdownTable(s.limits), "", ...s.limitNotes.map((x) => `- ${x}`));
   else out.push("No limits were estimated.");
+  out.push(...linearisationMarkdown(r));
   out.push("", "## Results", "", markdownTable(s.results), "");
   if (s.controlVariates.rows.length) {
     out.push("## Control variates", "", CONTROL_VARIATE_NOTE, "", markdownTable(s.controlVariates), "");

@@ -66,6 +66,8 @@ export interface DecayRate {
   misfitPValue: number | null;
   /** Grid points used (Var(R_n) > 0 with relative SE < 1/2, so the log is linearisable). */
   points: number[];
+  /** log C of the fitted line (for plots). */
+  logC: number;
 }
 
 export interface LinearisationEvidence {
@@ -270,7 +272,7 @@ export function decayRate(n: number[], v: number[], cov: Float64Array, blocks: n
   const se = Math.sqrt(fit.coefCov[3]) * S;
   const gamma = -fit.coef[1];
   const z = normalQuantile(1 - alpha / 2);
-  return { estimate: gamma, standardError: se, ci: [gamma - z * se, gamma + z * se], misfitPValue: misfit, points: keep.map((g) => n[g]) };
+  return { estimate: gamma, standardError: se, ci: [gamma - z * se, gamma + z * se], misfitPValue: misfit, points: keep.map((g) => n[g]), logC: fit.coef[0] };
 }
 
 /** Extrapolation of a coefficient series (signed: a limit below 0 is a value like any other). */

@@ -65,5 +65,18 @@ export function renderChecks(r: VerdictReport): string {
       ),
     );
   }
+  for (const l of r.linearisations ?? []) {
+    out.push("");
+    out.push(`Linearisation ${l.id} (coefficients divided by n^${(l.scaling - 1) / 2}; limits by extrapolation)`);
+    if (l.coefficients.length)
+      out.push(
+        table(
+          ["coefficient", "claimed", ...l.coefficients[0].perN.map((p) => `n = ${p.n}`), "limit", "95% CI"],
+          l.coefficients.map((c, i) => [c.label, num(c.claimed), ...c.perN.map((p) => num(p.value)), num(l.coefficientLimits[i]?.estimate), l.coefficientLimits[i]?.ci ? `[${num(l.coefficientLimits[i].ci![0])}, ${num(l.coefficientLimits[i].ci![1])}]` : "-"]),
+        ),
+      );
+    if (l.remainder.length) out.push(`Var(R_n)/n^${l.scaling}: ${l.remainder.map((p) => `${num(p.value)} (n = ${p.n})`).join(", ")}`);
+    out.push(l.unavailable ? `Not estimable: ${l.unavailable}.` : (l.remainderDecision?.why ?? ""));
+  }
   return out.join("\n");
 }

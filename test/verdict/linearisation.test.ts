@@ -194,3 +194,22 @@ describe("linearisation of the perimeter of two walks (real hulls)", () => {
     expect(s.claims!.some((c) => c.linearisation !== undefined)).toBe(true);
   });
 });
+
+describe("the report's view of a linearisation", () => {
+  it("tables and the remainder plot carry one row / one point per grid n; the JSON validates", async () => {
+    const { coefficientTable, remainderTable, remainderSvg } = await import("../../src/report/linearisation-view.js");
+    const sim = synthesise({
+      seed: "lin-view", grid: GRID, blocks: 64, pathsPerBlock: 200, keep: 10, controls: true,
+      generators: { perimeter: linear(A, B, C) },
+      claims: [{ measure: "perimeter", linearisation: lin([A, B]) }],
+    });
+    const l = evaluateChecks(sim, { measures: [] }).linearisations![0];
+    expect(coefficientTable(l).rows.map((r) => r[0])).toEqual(["g1.x", "g1.y"]);
+    expect(coefficientTable(l).header).toHaveLength(2 + GRID.length + 2);
+    expect(remainderTable(l).rows).toHaveLength(GRID.length);
+    const svg = remainderSvg(l);
+    expect(svg).toContain('data-plot="remainder-decay"');
+    // One <circle> per plotted point (the plotting helpers draw nothing else as a circle).
+    expect((svg.match(/<circle/g) ?? []).length).toBe(l.remainder.filter((p) => p.value > 0).length);
+  });
+});
