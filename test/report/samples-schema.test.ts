@@ -70,6 +70,8 @@ describe("JSON Schemas", () => {
     expect(suiteSchema({ ...good, claims: [{ measure: "perimeter" }] })).toBe(false);
     expect(suiteSchema({ ...good, claims: [{ measure: "perimeter", n: 10 }] })).toBe(false);
     expect(suiteSchema({ ...good, claims: [{ measure: "perimeter", n: 10, mean: 3 }] })).toBe(true);
+    expect(suiteSchema({ ...good, claims: [{ measure: "perimeter", linearisation: { endpoint: [[2, 0]] } }] })).toBe(true);
+    expect(suiteSchema({ ...good, claims: [{ measure: "perimeter", linearisation: { path: [[2, 0]] } }] })).toBe(false);
     expect(suiteSchema({ ...good, blocks: 8 })).toBe(false);
     expect(suiteSchema({ ...good, paths: 31 })).toBe(false);
   });

@@ -12,7 +12,10 @@
 
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
+import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
+import Ajv2020Module from "ajv/dist/2020.js";
+import { buildReport, toJson } from "../../src/report/json.js";
 import { evaluateChecks } from "../../src/verdict/checks.js";
 import { linearisationEvidence, decayRate } from "../../src/verdict/linearisation.js";
 import { loadSuite, simulate, predict, SuiteError } from "../../src/index.js";
@@ -187,6 +190,17 @@ describe("linearisation of the perimeter of two walks (real hulls)", () => {
     expect(v("perimeter.linearisation.g1.x.claims[1]").verdict).toBe("fail");
     expect(v("perimeter.linearisation.g1.y.claims[1]").verdict).toBe("fail");
     expect(v("perimeter.linearisation.g2.x.claims[1]").verdict).toBe("pass");
+    // The JSON report carries linearisations[] and validates against schema/report.schema.json (Ajv, draft 2020-12).
+    const Ajv2020 = (Ajv2020Module as unknown as { default?: typeof Ajv2020Module.default }).default ?? Ajv2020Module.default;
+    const ajv = new Ajv2020({ allErrors: true, strict: true, strictRequired: false, allowUnionTypes: true, formats: { "date-time": /^\d{4}-\d\d-\d\dT/ } });
+    ajv.addSchema(JSON.parse(readFileSync(join(ROOT, "schema/suite.schema.json"), "utf8")));
+    const schema = ajv.compile(JSON.parse(readFileSync(join(ROOT, "schema/report.schema.json"), "utf8")));
+    const json = JSON.parse(toJson(buildReport(sim, new Date(Date.UTC(2026, 11, 2)), { predictions: pred, verdicts: r })));
+    expect(json.linearisations.map((l: { id: string }) => l.id)).toEqual(["perimeter.linearisation.prediction", "perimeter.linearisation.claims[0]", "perimeter.linearisation.claims[1]"]);
+    expect(schema(json) ? null : schema.errors).toBeNull();
+    const broken = JSON.parse(JSON.stringify(json));
+    broken.linearisations[0].remainderDecision.verdict = "ok";
+    expect(schema(broken)).toBe(false);
   }, 120_000);
 
   it("a shipped suite parses with its linearisation claim", () => {
