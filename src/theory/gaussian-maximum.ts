@@ -313,11 +313,13 @@ export function tabulatedCdf(law: GaussianMaximumLaw, C: number[][]): TabulatedC
 export function ksDistanceToCdf(sorted: ArrayLike<number>, F: (x: number) => number, Fleft: (x: number) => number): number {
   const m = sorted.length;
   let d = 0;
-  for (let i = 0, j = 0; i < m; i = j) {
+  for (let i = 0; i < m;) {
     const x = sorted[i];
-    for (j = i + 1; j < m && sorted[j] === x;) j++;
+    let j = i + 1;
+    while (j < m && sorted[j] === x) j++;
     // Below x the empirical CDF is i/m, at x it is j/m (j - i tied values).
     d = Math.max(d, Math.abs(i / m - Fleft(x)), Math.abs(j / m - F(x)));
+    i = j;
   }
   return d;
 }

@@ -26,6 +26,7 @@ import { lawDecision, normalityEvidence, type LawDecision, type NormalityEvidenc
 import { estimateMeasures, scaledSeries, type MeasureEstimates, type PointEstimate } from "./estimates.js";
 import { insideBand, pathsToDecide, toleranceBand } from "./decide.js";
 import { extrapolateCoefficient, extrapolateRemainder, linearisationEvidence, remainderDecision } from "./linearisation.js";
+import { sqrtMeanConstant, tieLawCheck } from "./tie-law.js";
 import type { Check, CheckKind, LimitEstimate, LinearisationReport, Verdict, VerdictReport } from "./types.js";
 import type { Linearisation } from "../suite/schema.js";
 
@@ -150,7 +151,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
   const limitCheck = (
     measure: Measure, quantity: "varianceLimit" | "meanGrowth", scaling: number, value: number, id: string, source: string,
     constantKind: string | null, uncalibrated: boolean, family: Family, tol: number,
-    other?: { ex: Extrapolation; kind: CheckKind; name: string; scale: number },
+    other?: { ex: Extrapolation; kind: CheckKind; name: string; scale?: number },
   ) => {
     const ex = other?.ex ?? getExtrapolation(measure, quantity, scaling);
     const L = ex.limit;
@@ -297,6 +298,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
   };
 
   // --- predictions ----------------------------------------------------------------------------
+  const tieLaws: NonNullable<VerdictReport["tieLaws"]> = [];
   for (const measure of suite.measure) {
     const pred = predFor(measure);
     if (!pred) continue;
@@ -310,7 +312,15 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
       limitCheck(measure, "varianceLimit", pred.varianceScaling, pred.varianceLimit, `${measure}.varianceLimit.prediction`, src, pred.varianceLimitKind, pred.varianceUncalibrated === true, "predictions", tolerance);
     if (pred.meanGrowth !== null)
       limitCheck(measure, "meanGrowth", pred.meanScaling, pred.meanGrowth, `${measure}.meanGrowth.prediction`, src, pred.meanGrowthKind, false, "predictions", tolerance);
-    if (pred.limitLaw !== "degenerate") lawCheck(measure, pred.limitLaw, `${measure}.limitLaw.prediction`, src, pred.reasons, "predictions");
+    const gm = pred.limitLaw === "gaussian-maximum" ? pred.gaussianMaximum : undefined;
+    if (gm) {
+      // The law of a maximum of Gaussian forms and the mean's sqrt(n) constant (src/verdict/tie-law.ts).
+      const law = tieLawCheck(grid, measureSample(sim, measure), gm, tol, alpha);
+      tieLaws.push({ measure, state: law.state, points: law.evidence.points, cdfError: law.evidence.cdfError });
+      add({ id: `${measure}.limitLaw.prediction`, measure, n: grid[G - 1], kind: "limitLaw", source: src, expected: "gaussian-maximum", pValue: null, gated: false, ...law.fields }, law.fields.verdict, "predictions");
+      const est = estimates.get(measure);
+      if (est) limitCheck(measure, "meanGrowth", 0.5, gm.mean, `${measure}.meanSqrtConstant.prediction`, src, "derived", false, "predictions", tolerance, { ex: sqrtMeanConstant(measure, est, gm.centre, grid, sim.blocks.length, expectedRate), kind: "meanGrowth", name: "(mean - n d)/n^0.5" });
+    } else if (pred.limitLaw !== "degenerate") lawCheck(measure, pred.limitLaw, `${measure}.limitLaw.prediction`, src, pred.reasons, "predictions");
     if (pred.linearisation)
       linearisationCheck(measure, pred.linearisation, pred.varianceScaling, `${measure}.linearisation`, ".prediction", src, pred.varianceLimitKind, pred.varianceUncalibrated === true, "predictions", tolerance);
   }
@@ -403,5 +413,6 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
     familySizes: familySize,
     estimates: pointEstimates,
     ...(linearisations.length ? { linearisations } : {}),
+    ...(tieLaws.length ? { tieLaws } : {}),
   };
 }

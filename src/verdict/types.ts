@@ -5,6 +5,7 @@ import type { Measure } from "../suite/schema.js";
 import type { PointEstimate } from "./estimates.js";
 import type { LinearisationEvidence, RemainderDecision } from "./linearisation.js";
 import type { Linearisation } from "../suite/schema.js";
+import type { TieLawPoint } from "./tie-law.js";
 
 export type CheckKind = "mean" | "varianceLimit" | "meanGrowth" | "limitLaw" | "linearisation";
 export type Verdict = "pass" | "fail" | "inconclusive" | "confirmed" | "not-yet-visible";
@@ -96,6 +97,8 @@ export interface VerdictReport {
   estimates?: PointEstimate[];
   /** Every claimed or predicted linearisation: coefficients per n and their limits, the remainder's decay. */
   linearisations?: LinearisationReport[];
+  /** Measures predicted "gaussian-maximum": KS distance to the predicted law by n (src/verdict/tie-law.ts). */
+  tieLaws?: { measure: Measure; state: "agrees" | "disagrees" | "undecided"; points: TieLawPoint[]; cdfError: number }[];
 }
 
 /** One linearisation (a claim or a built-in prediction) as checked; its checks carry ids `${id}.<label>` and `${id}.remainder`. */
