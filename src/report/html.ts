@@ -10,7 +10,8 @@ import type { KeptSample } from "../run/types.js";
 import type { LimitEstimate } from "../verdict/types.js";
 import type { Report } from "./json.js";
 import { CONTROL_VARIATE_NOTE, LINEARISATION_NOTE, reportSections, type Table } from "./markdown.js";
-import { histogramData, histogramSvg, hullSvg, ksSeries, ksSvg, qqData, qqSvg, varianceRatioSvg, varianceSeries, type PathGeometry } from "./plots.js";
+import { histogramData, histogramSvg, hullSvg, ksSeries, ksSvg, qqData, qqSvg, tieCdfData, tieCdfSvg, varianceRatioSvg, varianceSeries, type PathGeometry } from "./plots.js";
+import { tieLawTable } from "./markdown.js";
 import { reportCss, VERDICT_MARK, type VerdictWord } from "./palette.js";
 import { escapeXml as esc } from "./svg.js";
 
@@ -69,6 +70,16 @@ function measurePlots(r: Report, measure: Measure, extras: HtmlExtras): string {
     const nMax = r.suite.n[G - 1];
     parts.push(figure(qqSvg(measure, nMax, qqData(last)), `Quantiles of the kept sample at n = ${nMax}, standardised by its mean and SD, against the standard normal law (dashed).`));
     parts.push(figure(histogramSvg(measure, nMax, histogramData(last)), `Histogram of the standardised kept sample at n = ${nMax} and the standard normal density.`));
+    if (pred?.limitLaw === "gaussian-maximum" && pred.gaussianMaximum) {
+      parts.push(
+        figure(
+          tieCdfSvg(measure, tieCdfData(r.suite.n, columns, pred.gaussianMaximum)),
+          `Empirical CDF of (${measure} - n d)/sqrt(n) at the smallest and the largest n against the predicted law, the maximum of the tied pairs' Gaussian forms (docs/theory.md sec. 7.1).`,
+        ),
+      );
+      const t = tieLawTable(r, measure);
+      if (t) parts.push(`<div><p>KS distance to the predicted law by n</p>${htmlTable(t)}</div>`);
+    }
     const ks = ksSeries(r.suite.n, columns);
     parts.push(
       figure(

@@ -50,6 +50,8 @@ export interface Report {
   controlVariates?: PointEstimate[];
   /** Claimed and predicted linearisations as checked (docs/theory.md sec. 6.1). */
   linearisations?: LinearisationReport[];
+  /** KS distances by n to predicted "gaussian-maximum" laws (docs/theory.md sec. 7.1). */
+  tieLaws?: VerdictReport["tieLaws"];
   /** What decided the exit code: failures, user claims left undecided, Holm family sizes, tolerance. */
   verdictSummary?: { failed: number; undecidedClaims: { id: string; pathsToDecide: number | null | undefined }[]; familySizes: { claims: number; predictions: number } | null; tolerance: number | null; alpha: number };
   /** Covariance between measures at each n (over the kept measures of the suite). */
@@ -135,6 +137,7 @@ export function buildReport(
     ...(extra.verdicts ? { checks: extra.verdicts.checks, limits: extra.verdicts.limits } : {}),
     ...(extra.verdicts?.estimates ? { controlVariates: extra.verdicts.estimates } : {}),
     ...(extra.verdicts?.linearisations ? { linearisations: extra.verdicts.linearisations } : {}),
+    ...(extra.verdicts?.tieLaws ? { tieLaws: extra.verdicts.tieLaws } : {}),
     ...(extra.verdicts
       ? {
           verdictSummary: {

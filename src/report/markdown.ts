@@ -182,6 +182,16 @@ function linearisationMarkdown(r: Report): string[] {
   return out;
 }
 
+/** KS distance of the standardised sample to a predicted "gaussian-maximum" law by n (src/verdict/tie-law.ts); null when none. */
+export function tieLawTable(r: Report, measure: string): Table | null {
+  const t = (r.tieLaws ?? []).find((x) => x.measure === measure);
+  if (!t) return null;
+  return {
+    header: ["n", "kept paths", "KS distance", `${Math.round(100 * (1 - (r.verdictSummary?.alpha ?? 0.01)))}% bound (simultaneous)`, "resolution 3 x 0.87/sqrt(m)"],
+    rows: t.points.map((p) => [String(p.n), String(p.size), sig(p.distance, 3), sig(p.distance + p.radius, 3), sig(p.resolution, 3)]),
+  };
+}
+
 /** report.md */
 export function renderMarkdown(r: Report): string {
   const s = reportSections(r);
@@ -203,6 +213,10 @@ export function renderMarkdown(r: Report): string {
   if (s.limits.rows.length) out.push(markdownTable(s.limits), "", ...s.limitNotes.map((x) => `- ${x}`));
   else out.push("No limits were estimated.");
   out.push(...linearisationMarkdown(r));
+  for (const m of r.suite.measure) {
+    const t = tieLawTable(r, m);
+    if (t) out.push("", `## ${m}: KS distance to the predicted gaussian-maximum law`, "", markdownTable(t), "", `State: ${(r.tieLaws ?? []).find((x) => x.measure === m)!.state} (the verdict is the ${m}.limitLaw.prediction check).`);
+  }
   out.push("", "## Results", "", markdownTable(s.results), "");
   if (s.controlVariates.rows.length) {
     out.push("## Control variates", "", CONTROL_VARIATE_NOTE, "", markdownTable(s.controlVariates), "");

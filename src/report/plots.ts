@@ -11,13 +11,17 @@
 //   (the Lilliefors statistic), log-log, with the resolution floor 0.87/sqrt(m) and, over points
 //   above 3x the floor (the rule of src/verdict/normality.ts), an ordinary least-squares line
 //   log d = a - r log n. The points share paths, so the slope's SE is indicative only.
+// - tie-cdf (a "gaussian-maximum" law, docs/theory.md sec. 7.1): the empirical CDF of the kept sample
+//   standardised as (X_n - n d)/sqrt(n) at the smallest and the largest n (at most 400 steps each,
+//   evenly spaced in rank) against the predicted CDF (src/verdict/tie-law.ts predictedCdf).
 // - hull: the points of one sample path per walk and the hull of all of them.
 
 import type { ResultRecord } from "../run/types.js";
 import { equalIntervalBreaks, extent, quantileSorted } from "simple-statistics";
 import { ksNormalDistance, meanSd } from "../stats/lilliefors.js";
 import { normalQuantile } from "../stats/normal.js";
-import type { MeasurePrediction } from "../theory/types.js";
+import type { GaussianMaximumPrediction, MeasurePrediction } from "../theory/types.js";
+import { predictedCdf } from "../verdict/tie-law.js";
 import type { LimitEstimate } from "../verdict/types.js";
 import { axes, bottomMargin, clip, errorBars, escapeXml, fmt, legend, LEGEND_ROW, padDomain, pathD, points, scales, svgPlot, type Frame } from "./svg.js";
 
@@ -348,3 +352,45 @@ export function hullSvg(g: PathGeometry, maxPerWalk = 3000): string {
 }
 
 export { escapeXml };
+
+export interface TieCdfData {
+  /** The predicted CDF on a grid of x. */
+  predicted: { x: number[]; F: number[] };
+  /** Empirical CDFs (x sorted, F = rank/m) of the standardised sample at the smallest and largest n. */
+  empirical: { n: number; size: number; x: number[]; F: number[] }[];
+}
+
+export function tieCdfData(grid: number[], columns: ArrayLike<number>[], law: GaussianMaximumPrediction, maxSteps = 400): TieCdfData {
+  const F = predictedCdf(law);
+  const picks = grid.length > 1 ? [0, grid.length - 1] : [0];
+  const empirical = picks.flatMap((g) => {
+    const n = grid[g];
+    const v = Float64Array.from(columns[g], (x) => (x - n * law.centre) / Math.sqrt(n)).filter(Number.isFinite).sort();
+    const m = v.length;
+    if (m < 2) return [];
+    const K = Math.min(m, maxSteps);
+    const idx = Array.from({ length: K }, (_, i) => Math.round((i * (m - 1)) / Math.max(1, K - 1)));
+    return [{ n, size: m, x: idx.map((i) => v[i]), F: idx.map((i) => (i + 1) / m) }];
+  });
+  const all = empirical.flatMap((e) => e.x);
+  const sd = Math.sqrt(law.variance) || 1;
+  const [lo, hi] = all.length ? [Math.min(...all), Math.max(...all)] : [law.mean - 4 * sd, law.mean + 4 * sd];
+  const x = Array.from({ length: 201 }, (_, i) => lo + ((hi - lo) * i) / 200);
+  return { predicted: { x, F: x.map(F.cdf) }, empirical };
+}
+
+export function tieCdfSvg(measure: string, d: TieCdfData): string {
+  const xdom = padDomain(d.predicted.x, 0.02);
+  const f = frame({ kind: "linear", domain: xdom, label: `(${measure} - n d)/sqrt(n)` }, { kind: "linear", domain: [0, 1], label: "CDF" }, 1 + d.empirical.length);
+  const sc = scales(f);
+  const id = `clip-tiecdf-${measure}`;
+  const body = [`<defs>${clip(id, f)}</defs>`, axes(sc), `<g clip-path="url(#${id})">`, `<path class="predicted" d="${pathD(sc, d.predicted.x, d.predicted.F)}"/>`];
+  const lg: Parameters<typeof legend>[1] = [{ cls: "predicted", kind: "line", text: "predicted law: maximum of Gaussian forms" }];
+  d.empirical.forEach((e, i) => {
+    const cls = i === d.empirical.length - 1 ? "fit" : "floor";
+    body.push(`<path class="${cls}" d="${pathD(sc, e.x, e.F)}"/>`);
+    lg.push({ cls, kind: "line", text: `empirical CDF at n = ${e.n} (${e.size} paths)` });
+  });
+  body.push(`</g>`, legend(f, lg));
+  return svgPlot({ "data-plot": "tie-cdf", "data-measure": measure, "data-points": d.empirical.reduce((a, e) => a + e.x.length, 0) }, f, `Predicted and empirical CDF of the ${measure}`, body.join(""));
+}

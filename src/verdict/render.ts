@@ -78,5 +78,9 @@ export function renderChecks(r: VerdictReport): string {
     if (l.remainder.length) out.push(`Var(R_n)/n^${l.scaling}: ${l.remainder.map((p) => `${num(p.value)} (n = ${p.n})`).join(", ")}`);
     out.push(l.unavailable ? `Not estimable: ${l.unavailable}.` : (l.remainderDecision?.why ?? ""));
   }
+  for (const t of r.tieLaws ?? []) {
+    out.push("", `KS distance of the ${t.measure} to its predicted gaussian-maximum law (state: ${t.state})`);
+    out.push(table(["n", "kept paths", "KS distance", `${Math.round(100 * (1 - r.alpha))}% bound`, "resolution"], t.points.map((p) => [String(p.n), String(p.size), num(p.distance), num(p.distance + p.radius), num(p.resolution)])));
+  }
   return out.join("\n");
 }

@@ -2,9 +2,9 @@
 // fitted variance curve, on inputs whose answer is known.
 
 import { describe, expect, it } from "vitest";
-import { histogramData, hullSvg, ksSeries, qqData, varianceSeries } from "../../src/report/plots.js";
+import { histogramData, hullSvg, ksSeries, qqData, tieCdfData, tieCdfSvg, varianceSeries } from "../../src/report/plots.js";
 import { linearTicks, logTicks } from "../../src/report/svg.js";
-import { normalQuantile } from "../../src/stats/normal.js";
+import { normalCdf, normalQuantile } from "../../src/stats/normal.js";
 import type { LimitEstimate } from "../../src/verdict/types.js";
 
 /** Deterministic "sample": the quantiles of a law at (i - 1/2)/m, no sampling noise. */
@@ -76,5 +76,27 @@ describe("plot data", () => {
     expect(svg.match(/<circle /g)).toHaveLength(5);
     expect(svg.match(/class="walk walk\d" data-walk/g)).toHaveLength(2);
     expect(svg).toMatch(/data-points="5"/);
+  });
+});
+
+describe("tie CDF plot (gaussian-maximum law, docs/theory.md sec. 7.1)", () => {
+  // Two independent forms of variance 1: F(x) = Phi(x)^2. The "sample" at each n is n d + sqrt(n) times the
+  // quantiles of that law (no noise), so the empirical CDF sits on the predicted one.
+  const law = { centre: 2, forms: [], covariance: [[1, 0], [0, 1]], mean: 1 / Math.sqrt(Math.PI), meanError: 0, variance: 1 - 1 / Math.PI, varianceError: 0, method: "test" };
+  const grid = [16, 256];
+  const columns = grid.map((n) => quantileSample(2000, (p) => n * 2 + Math.sqrt(n) * normalQuantile(Math.sqrt(p))));
+  const d = tieCdfData(grid, columns, law);
+  it("the predicted curve is Phi(x)^2 and the empirical CDFs (smallest and largest n) follow it", () => {
+    d.predicted.x.forEach((x, i) => expect(Math.abs(d.predicted.F[i] - normalCdf(x) ** 2)).toBeLessThan(1e-6));
+    expect(d.empirical.map((e) => e.n)).toEqual([16, 256]);
+    for (const e of d.empirical) {
+      expect(e.x).toHaveLength(400);
+      e.x.forEach((x, i) => expect(Math.abs(e.F[i] - normalCdf(x) ** 2)).toBeLessThan(1.5 / 2000 + 1e-6));
+    }
+  });
+  it("renders one SVG with the predicted and two empirical curves", () => {
+    const svg = tieCdfSvg("diameter", d);
+    expect(svg).toContain('data-plot="tie-cdf"');
+    expect(svg.match(/<path class="(predicted|fit|floor)" d="M/g)).toHaveLength(3);
   });
 });
