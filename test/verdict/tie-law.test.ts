@@ -10,6 +10,15 @@ import { gaussianMaximum } from "../../src/theory/gaussian-maximum.js";
 import type { MeasurePrediction, Prediction } from "../../src/theory/types.js";
 import type { StepLaw } from "../../src/suite/schema.js";
 import { gaussian, synthesise, type PathGenerator } from "./synthetic.js";
+import { simulate } from "../../src/index.js";
+import { validateSuite } from "../../src/suite/load.js";
+import { buildReport, toJson } from "../../src/report/json.js";
+import { readFileSync } from "node:fs";
+import { dirname, join } from "node:path";
+import { fileURLToPath } from "node:url";
+import Ajv2020Module from "ajv/dist/2020.js";
+
+const ROOT = join(dirname(fileURLToPath(import.meta.url)), "../..");
 
 const I: [[number, number], [number, number]] = [[1, 0], [0, 1]];
 const walks: StepLaw[] = [0, 1, 2].map((i) => ({ law: "gaussian", mean: [Math.cos((2 * Math.PI * i) / 3), Math.sin((2 * Math.PI * i) / 3)], cov: I }));
@@ -77,4 +86,32 @@ describe("gaussian-maximum law checks on synthetic ties (40,000 kept paths, norm
     expect(law.estimate!).toBeGreaterThan(0.03);
     expect(law.verdict, law.detail).toBe("inconclusive");
   });
+});
+
+describe("a simulated tie (the engine's hulls): three drifts at the corners of an equilateral triangle", () => {
+  // Budget: 32,768 paths (all kept), n = 32..1024 (1.5 decades: the rate is fitted), normalityTolerance 0.03, tolerance 5%. In the shipped suite
+  // (131,072 paths) the KS distance to the predicted law is 0.0086 at n = 1024 and the sqrt(n) constant
+  // extrapolates to 1.037 +- 0.011 (99%), E M = 1.036482; here the DKW radius is about 0.011, so the law's
+  // bound (about 0.02) passes 0.03 and the constant's interval fits in +-5%.
+  it("passes its law, its sqrt(n) mean constant and Var/n; the same data fail a law with a covariance 1.5 times too large", async () => {
+    const suite = validateSuite({ title: "tie (test)", seed: 1414, paths: 32768, n: [32, 64, 128, 256, 512, 1024], measure: ["diameter"], walks, normalityTolerance: 0.03, tolerance: 0.05 });
+    const pred = predict(suite, { budgetSeconds: 5 });
+    expect(pred.measures[0].limitLaw).toBe("gaussian-maximum");
+    const sim = await simulate(suite, { workers: 2 });
+    const r = evaluateChecks(sim, pred);
+    const v = (id: string) => r.checks.find((c) => c.id === `diameter.${id}.prediction`)!;
+    for (const id of ["limitLaw", "meanSqrtConstant", "varianceLimit", "meanGrowth"]) expect(v(id).verdict, `${id}: ${v(id).detail}`).not.toBe("fail");
+    expect(v("limitLaw").verdict, v("limitLaw").detail).toBe("pass");
+    expect(v("meanSqrtConstant").verdict, v("meanSqrtConstant").detail).toBe("pass");
+    const wrong = evaluateChecks(sim, { measures: [{ ...pred.measures[0], ...scaled(1.5) }] });
+    expect(wrong.checks.find((c) => c.id === "diameter.limitLaw.prediction")!.verdict).toBe("fail");
+    // The JSON report carries tieLaws[] and the prediction's gaussianMaximum, and validates against schema/report.schema.json.
+    const Ajv2020 = (Ajv2020Module as unknown as { default?: typeof Ajv2020Module.default }).default ?? Ajv2020Module.default;
+    const ajv = new Ajv2020({ allErrors: true, strict: true, strictRequired: false, allowUnionTypes: true, formats: { "date-time": /^\d{4}-\d\d-\d\dT/ } });
+    ajv.addSchema(JSON.parse(readFileSync(join(ROOT, "schema/suite.schema.json"), "utf8")));
+    const schema = ajv.compile(JSON.parse(readFileSync(join(ROOT, "schema/report.schema.json"), "utf8")));
+    const json = JSON.parse(toJson(buildReport(sim, new Date(Date.UTC(2026, 11, 2)), { predictions: pred, verdicts: r })));
+    expect(json.tieLaws[0].points.map((p: { n: number }) => p.n)).toEqual([32, 64, 128, 256, 512, 1024]);
+    expect(schema(json) ? null : schema.errors).toBeNull();
+  }, 120_000);
 });
