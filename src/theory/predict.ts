@@ -58,6 +58,16 @@ function rowsFor(p: MeasurePrediction): PredictionRow[] {
     verdict: p.meanGrowthKind ?? "no prediction",
     source: src,
   });
+  if (p.linearisation) {
+    const s = (p.varianceScaling - 1) / 2;
+    rows.push({
+      quantity: "linearisation",
+      value: p.linearisation.endpoint.map((g, j) => `g_${j + 1} = (${fmt(g[0])}, ${fmt(g[1])})`).join(", "),
+      hypotheses: `M_n - E M_n = ${s === 0 ? "" : `n^${s} `}sum_j g_j . (S_n^j - n mu_j) + o(n^${p.varianceScaling / 2}) (docs/theory.md sec. 6.1)`,
+      verdict: p.varianceLimitKind ?? "derived",
+      source: src,
+    });
+  }
   const gm = p.gaussianMaximum;
   if (gm) {
     rows.push({
