@@ -203,6 +203,17 @@ describe("linearisation of the perimeter of two walks (real hulls)", () => {
     expect(schema(broken)).toBe(false);
   }, 120_000);
 
+  it("where the hypotheses break (two walks with the same drift), a naive linearisation's remainder fails at 20,000 paths", async () => {
+    const suite = loadSuite(join(ROOT, "validation/nonnormal-equal-drifts-linearisation.json"), { paths: 20000 });
+    const sim = await simulate(suite, { workers: 2 });
+    const r = evaluateChecks(sim, { measures: [] });
+    const rem = r.checks.find((c) => c.id === "perimeter.linearisation.remainder.claims[0]")!;
+    expect(rem.verdict, rem.detail).toBe("fail");
+    // The remainder keeps a material share of Var(L_n)/n at the largest n (seen: about 31%).
+    const last = r.linearisations![0].remainder.at(-1)!;
+    expect(last.value / last.measureVariance).toBeGreaterThan(0.1);
+  }, 120_000);
+
   it("a shipped suite parses with its linearisation claim", () => {
     const s = loadSuite(join(ROOT, "validation/two-walks-right-angle.json"));
     expect(s.claims!.some((c) => c.linearisation !== undefined)).toBe(true);
