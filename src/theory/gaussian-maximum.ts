@@ -19,7 +19,16 @@
 //     P(W <= t) = int_{z <= t_k/s} phi(z) P(W' <= t' - beta z) dz,  beta_j = C_jk / C_kk,
 //   W' with the conditional covariance C_jl - C_jk C_lk / C_kk, recursively down to d = 2
 //   (forms whose conditional variance vanishes become indicators: the integral is split at their
-//   jumps). The cost grows like (nodes)^(d-2): d <= MAX_FORMS is accepted.
+//   jumps). The cost grows like (nodes)^(d-2): used for d = 3 (QUADRATURE_FORMS).
+// - 4 <= d <= MAX_FORMS: randomised quasi-Monte Carlo. The CDF by the separation-of-variables
+//   transform of the orthant probability ("Numerical computation of multivariate normal
+//   probabilities", Journal of Computational and Graphical Statistics 1, 1992 [memory]) on a
+//   Kronecker lattice k sqrt(p_i) mod 1 (p_i the primes) with the tent (baker's) periodisation, the
+//   same points for every x (so F is smooth in x); E M and E M^2 directly as averages of
+//   max(L z), z = Phi^-1(u), over a lattice in d dimensions. Error: R = 8 random shifts (seeded,
+//   so the result is deterministic); the bound is 5 standard errors over the shifts (Student's t
+//   with 7 degrees of freedom exceeds 5 in absolute value with probability 0.0016): a probabilistic
+//   bound, about 1e-3 for the moments and 1e-4 for the CDF, not 1e-9.
 // Mean and variance: E M = int_0^inf (1 - F) - int_-inf^0 F, E M^2 = int_0^inf 2x (1 - F) +
 // int_-inf^0 2|x| F, on [-L, L], L = 10 max_i s_i (tails below m Phi(-10) ~ 1e-23 m).
 // Quadrature: adaptive Gauss-Legendre (10 against 20 nodes on each panel, bisected until they agree;
@@ -28,11 +37,14 @@
 // 20-node value kept is far more accurate than the 10-node comparison). Normal CDF: stdlib erfc,
 // relative accuracy ~1e-15 (src/stats/normal.ts).
 
-import { normalCdf } from "../stats/normal.js";
+import seedrandom from "seedrandom";
+import { normalCdf, normalQuantile } from "../stats/normal.js";
 import { gaussLegendre, INV_SQRT_2PI } from "./special.js";
 
-/** Largest number of distinct non-degenerate forms whose law is computed (nested quadrature cost). */
-export const MAX_FORMS = 3;
+/** Largest number of distinct forms integrated by nested quadrature; beyond it, quasi-Monte Carlo. */
+export const QUADRATURE_FORMS = 3;
+/** Largest number of distinct non-degenerate forms whose law is computed. */
+export const MAX_FORMS = 12;
 
 export interface ValueWithError {
   value: number;
@@ -104,7 +116,7 @@ export function orthantProbability(C: number[][], t: number[], scale2: number, t
     const rho = Math.max(-1, Math.min(1, C[0][1] / (s[0] * s[1])));
     return bivariateNormalCdf(t[0] / s[0], t[1] / s[1], rho, tol);
   }
-  if (d > MAX_FORMS) throw new Error(`orthantProbability: ${d} forms (at most ${MAX_FORMS} are computed)`);
+  if (d > QUADRATURE_FORMS) throw new Error(`orthantProbability: ${d} forms (nested quadrature for at most ${QUADRATURE_FORMS})`);
   // Condition on the coordinate of largest variance.
   let k = 0;
   for (let i = 1; i < d; i++) if (C[i][i] > C[k][k]) k = i;
@@ -156,6 +168,8 @@ export interface GaussianMaximumLaw {
   method: string;
   /** F(x) = P(M <= x) with its error bound. */
   cdf: (x: number) => ValueWithError;
+  /** Step of the CDF table in units of the largest form SD (coarser when each value is costly). */
+  tableStep?: number;
 }
 
 /** Forms after the exact reduction: indices kept, and whether a zero form exists. */
@@ -215,6 +229,7 @@ export function gaussianMaximum(C: number[][], tol = 1e-10): GaussianMaximumLaw 
     return { ...base, mean: Math.sqrt(v) * INV_SQRT_2PI, meanError: 1e-15 * Math.sqrt(v), variance: v / 2 - v / (2 * Math.PI), varianceError: 1e-15 * v, method: "closed form (one form and the constant 0)" };
   }
   if (!zero && d === 1) return { ...base, mean: 0, meanError: 0, variance: Ck[0][0], varianceError: 1e-16 * Ck[0][0], method: "closed form (one form)" };
+  if (d > QUADRATURE_FORMS) return qmcLaw(Ck, zero, scale2, base);
   if (!zero && d === 2) {
     const theta2 = Math.max(0, Ck[0][0] + Ck[1][1] - 2 * Ck[0][1]);
     const mean = Math.sqrt(theta2) * INV_SQRT_2PI;
@@ -258,7 +273,8 @@ export function gaussianMaximum(C: number[][], tol = 1e-10): GaussianMaximumLaw 
 
 /**
  * The CDF tabulated for many evaluations (a KS distance over 10^5 sample points): values on a grid
- * of step h = 0.04 s_max over [-10 s_max, 10 s_max], cubic interpolation in between. The bound
+ * of step h = 0.04 s_max (0.1 s_max for a quasi-Monte Carlo law) over [-10 s_max, 10 s_max], cubic
+ * interpolation in between. The bound
  * returned is the largest difference, at every panel midpoint, between the interpolant and the
  * direct value, plus the direct values' own error: checked, not assumed.
  */
@@ -272,7 +288,7 @@ export interface TabulatedCdf {
 export function tabulatedCdf(law: GaussianMaximumLaw, C: number[][]): TabulatedCdf {
   const smax = Math.sqrt(Math.max(1e-300, ...C.map((r, i) => r[i])));
   if (law.distinctForms === 0) return { cdf: (x) => (x < 0 ? 0 : 1), cdfLeft: (x) => (x <= 0 ? 0 : 1), error: 0 };
-  const L = 10 * smax, h = 0.04 * smax;
+  const L = 10 * smax, h = (law.tableStep ?? 0.04) * smax;
   const N = 2 * Math.round(L / h);
   const xs = Float64Array.from({ length: N + 1 }, (_, i) => -L + i * h);
   let error = 0;
@@ -322,4 +338,111 @@ export function ksDistanceToCdf(sorted: ArrayLike<number>, F: (x: number) => num
     i = j;
   }
   return d;
+}
+
+// --- quasi-Monte Carlo for d > QUADRATURE_FORMS ---------------------------------------------
+
+const PRIMES = [2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53];
+const SHIFTS = 8;
+/** Bound = T_BOUND standard errors over the 8 shifts: P(|t_7| > 5) = 0.0016 (Student's t, 7 df). */
+const T_BOUND = 5;
+
+/** SHIFTS point sets of N points in `dim` dimensions: frac(k sqrt(p_i) + shift_i), tent-transformed. */
+function latticeSets(dim: number, N: number): Float64Array[] {
+  const rng = seedrandom(`gaussian-maximum lattice ${dim} ${N}`);
+  const alpha = PRIMES.slice(0, dim).map((p) => Math.sqrt(p) % 1);
+  return Array.from({ length: SHIFTS }, () => {
+    const shift = alpha.map(() => rng());
+    const pts = new Float64Array(N * dim);
+    for (let k = 0; k < N; k++) {
+      for (let i = 0; i < dim; i++) {
+        const u = (((k + 1) * alpha[i] + shift[i]) % 1);
+        pts[k * dim + i] = Math.min(1 - 1e-15, Math.max(1e-15, 1 - Math.abs(2 * u - 1)));
+      }
+    }
+    return pts;
+  });
+}
+
+/** Lower-triangular L with L L' = C (Cholesky; a pivot below eps leaves a zero column: C singular). */
+function choleskyPsd(C: number[][], eps: number): number[][] {
+  const d = C.length;
+  const L = C.map(() => new Array<number>(d).fill(0));
+  for (let j = 0; j < d; j++) {
+    let v = C[j][j];
+    for (let k = 0; k < j; k++) v -= L[j][k] * L[j][k];
+    if (v <= eps) continue;
+    L[j][j] = Math.sqrt(v);
+    for (let i = j + 1; i < d; i++) {
+      let w = C[i][j];
+      for (let k = 0; k < j; k++) w -= L[i][k] * L[j][k];
+      L[i][j] = w / L[j][j];
+    }
+  }
+  return L;
+}
+
+/** Mean over the shifts of per-shift averages, and T_BOUND standard errors over the shifts. */
+function overShifts(values: number[]): ValueWithError {
+  const R = values.length;
+  const mean = values.reduce((a, b) => a + b, 0) / R;
+  const v = values.reduce((a, b) => a + (b - mean) ** 2, 0) / (R - 1);
+  return { value: mean, error: T_BOUND * Math.sqrt(v / R) };
+}
+
+/** P(L z <= t) by separation of variables on the given point sets (dimension d - 1). */
+function orthantQmc(L: number[][], t: number[], sets: Float64Array[]): ValueWithError {
+  const d = t.length, dim = d - 1;
+  const y = new Float64Array(d);
+  const per = sets.map((pts) => {
+    const N = pts.length / Math.max(1, dim);
+    let sum = 0;
+    for (let k = 0; k < N; k++) {
+      let f = 1;
+      for (let i = 0; i < d && f > 0; i++) {
+        let s = 0;
+        for (let j = 0; j < i; j++) if (L[i][j] !== 0) s += L[i][j] * y[j];
+        const e = L[i][i] > 0 ? normalCdf((t[i] - s) / L[i][i]) : t[i] - s >= 0 ? 1 : 0;
+        f *= e;
+        if (i < dim) y[i] = L[i][i] > 0 && e > 0 ? Math.max(-40, normalQuantile(Math.max(1e-300, pts[k * dim + i] * e))) : 0;
+      }
+      sum += f;
+    }
+    return sum / N;
+  });
+  const r = overShifts(per);
+  return { value: Math.min(1, Math.max(0, r.value)), error: r.error };
+}
+
+function qmcLaw(C: number[][], zero: boolean, scale2: number, base: Pick<GaussianMaximumLaw, "forms" | "distinctForms" | "hasZeroForm" | "cdf">): GaussianMaximumLaw {
+  const d = C.length;
+  const L = choleskyPsd(C, 1e-12 * scale2);
+  const cdfSets = latticeSets(d - 1, 512);
+  const cdf = (x: number): ValueWithError => (Number.isNaN(x) ? { value: NaN, error: 0 } : zero && x < 0 ? { value: 0, error: 0 } : orthantQmc(L, C.map(() => x), cdfSets));
+  // Moments: M = max(L z) (and 0 with a zero form), z = Phi^-1(u) over a d-dimensional lattice.
+  const N = 1 << 15;
+  const m1: number[] = [], m2: number[] = [];
+  const z = new Float64Array(d);
+  for (const pts of latticeSets(d, N)) {
+    let s1 = 0, s2 = 0;
+    for (let k = 0; k < N; k++) {
+      for (let j = 0; j < d; j++) z[j] = normalQuantile(pts[k * d + j]);
+      let M = zero ? 0 : -Infinity;
+      for (let i = 0; i < d; i++) {
+        let w = 0;
+        for (let j = 0; j <= i; j++) w += L[i][j] * z[j];
+        if (w > M) M = w;
+      }
+      s1 += M;
+      s2 += M * M;
+    }
+    m1.push(s1 / N);
+    m2.push(s2 / N);
+  }
+  const mean = overShifts(m1);
+  const variance = overShifts(m1.map((a, r) => m2[r] - a * a));
+  return {
+    ...base, cdf, tableStep: 0.1, mean: mean.value, meanError: mean.error, variance: variance.value, varianceError: variance.error,
+    method: `randomised quasi-Monte Carlo (${d} distinct forms${zero ? " and the constant 0" : ""}; lattice with ${SHIFTS} random shifts, bounds of 5 standard errors over the shifts)`,
+  };
 }

@@ -102,6 +102,16 @@ describe("When the normal limit fails (docs/theory.md sec. 12)", () => {
     // normals: E M = 3/(2 sqrt(pi)) (E max of three standard normals, common practice).
     expect(d.gaussianMaximum!.mean).toBeCloseTo(3 / (2 * Math.sqrt(Math.PI)), 9);
   });
+  it("a tie with a repeated vertex: one form per walk at each end (5 forms, quasi-Monte Carlo law)", () => {
+    const tri = [0, 1, 2].map((i) => g([Math.cos((2 * Math.PI * i) / 3), Math.sin((2 * Math.PI * i) / 3)]));
+    const p = run([...tri, tri[0]], ["diameter"]);
+    const d = of(p, "diameter");
+    expect(d.limitLaw).toBe("gaussian-maximum");
+    expect(d.gaussianMaximum!.forms.length).toBe(5);
+    expect(d.gaussianMaximum!.method).toMatch(/quasi-Monte Carlo/);
+    // Adding forms can only raise the maximum: E M above the three-form value 1.036482 (sec. 7.1).
+    expect(d.gaussianMaximum!.mean - d.gaussianMaximum!.meanError).toBeGreaterThan(1.036482);
+  });
   it("a tie whose origin vertex holds a zero-drift walk stays non-normal, law not computed", () => {
     const p = run([g([1, 0]), g([0.5, Math.sqrt(3) / 2]), g([0, 0])], ["diameter"]);
     expect(of(p, "diameter").limitLaw).toBe("non-normal");

@@ -3,7 +3,7 @@
 import { describe, expect, it } from "vitest";
 import seedrandom from "seedrandom";
 import { mean as ssMean, sampleVariance } from "simple-statistics";
-import { bivariateNormalCdf, gaussianMaximum, ksDistanceToCdf, tabulatedCdf } from "../../src/theory/gaussian-maximum.js";
+import { adaptiveIntegral, bivariateNormalCdf, gaussianMaximum, ksDistanceToCdf, tabulatedCdf } from "../../src/theory/gaussian-maximum.js";
 import { normalCdf } from "../../src/stats/normal.js";
 
 const PHI0 = 1 / Math.sqrt(2 * Math.PI);
@@ -80,7 +80,36 @@ describe("exact special cases", () => {
     expect(() => gaussianMaximum([[1, 0.5], [0.4, 1]])).toThrow(/covariance\[0\]\[1\]: not symmetric/);
     expect(() => gaussianMaximum([[1, 2], [2, 1]])).toThrow(/not a covariance/);
     expect(() => gaussianMaximum([[1, 0], [0]])).toThrow(/covariance\[1\]: expected 2 entries/);
-    expect(() => gaussianMaximum([[1, 0, 0, 0], [0, 1, 0, 0], [0, 0, 1, 0], [0, 0, 0, 1]])).toThrow(/4 distinct forms/);
+    const I13 = Array.from({ length: 13 }, (_, i) => Array.from({ length: 13 }, (_, j) => (i === j ? 1 : 0)));
+    expect(() => gaussianMaximum(I13)).toThrow(/13 distinct forms/);
+  });
+});
+
+describe("four or more forms (randomised quasi-Monte Carlo, probabilistic bounds of 5 SE over 8 shifts)", () => {
+  // Equicorrelated: W_i = sqrt(r) Z_0 + sqrt(1 - r) Z_i, so F(x) = int phi(z) Phi((x - sqrt(r) z)/sqrt(1 - r))^4 dz,
+  // E M = sqrt(1 - r) E max_4, Var M = r + (1 - r) Var max_4, with E max_4, E max_4^2 of independent standard
+  // normals by 1-D quadrature of Phi^4 (adaptive Gauss-Legendre to 1e-13).
+  const d = 4, r = 0.3;
+  const C = Array.from({ length: d }, (_, i) => Array.from({ length: d }, (_, j) => (i === j ? 1 : r)));
+  const law = gaussianMaximum(C);
+  const q = (f: (x: number) => number) => adaptiveIntegral(f, 0, 12, 1e-13).value;
+  const e1 = q((x) => 1 - normalCdf(x) ** d) - q((x) => normalCdf(-x) ** d);
+  const e2 = q((x) => 2 * x * (1 - normalCdf(x) ** d)) + q((x) => 2 * x * normalCdf(-x) ** d);
+  it("mean and variance within their stated bounds (bounds below 2e-3)", () => {
+    expect(law.method).toMatch(/quasi-Monte Carlo/);
+    expect(law.meanError).toBeLessThan(2e-3);
+    expect(law.varianceError).toBeLessThan(2e-3);
+    expect(Math.abs(law.mean - Math.sqrt(1 - r) * e1)).toBeLessThanOrEqual(law.meanError);
+    expect(Math.abs(law.variance - (r + (1 - r) * (e2 - e1 * e1)))).toBeLessThanOrEqual(law.varianceError);
+  });
+  it("CDF within its stated bound at several x; the table's bound covers the interpolation", () => {
+    for (const x of [-1.5, -0.4, 0, 0.6, 1.3, 2.5]) {
+      const exact = adaptiveIntegral((z) => Math.exp(-z * z / 2) / Math.sqrt(2 * Math.PI) * normalCdf((x - Math.sqrt(r) * z) / Math.sqrt(1 - r)) ** d, -12, 12, 1e-14).value;
+      const got = law.cdf(x);
+      expect(got.error).toBeLessThan(2e-3);
+      expect(Math.abs(got.value - exact)).toBeLessThanOrEqual(got.error + 1e-12);
+    }
+    expect(tabulatedCdf(law, C).error).toBeLessThan(3e-3);
   });
 });
 
