@@ -6,8 +6,8 @@
 import { parseArgs, type ParseArgsConfig } from "node:util";
 import { existsSync, readFileSync, rmSync, statSync } from "node:fs";
 import { dirname, join } from "node:path";
-import { loadSuite, SuiteError } from "./suite/load.js";
-import type { LoadedSuite } from "./suite/schema.js";
+import { blockCount, loadSuite, SuiteError } from "./suite/load.js";
+import type { LoadedSuite, Measure } from "./suite/schema.js";
 import { renderPredictionTable } from "./theory/predict.js";
 import { predictCached } from "./theory/cache.js";
 import type { Prediction } from "./theory/types.js";
@@ -16,6 +16,8 @@ import { runSuite } from "./run/run.js";
 import type { EarlyWorkers } from "./run/prestart.js";
 import { EarlyPrediction, predictionTargets } from "./verdict/early-prediction.js";
 import { meanEstimates } from "./verdict/accuracy.js";
+import { LawEvidenceThreads, type LawEvidence } from "./verdict/law-evidence.js";
+import { defaultWorkers } from "./run/pool.js";
 import { CheckpointError, type PartSpec } from "./run/checkpoint.js";
 import { combinePartFiles, CombineError, partFile } from "./run/parts.js";
 import type { SimulationResult } from "./run/types.js";
@@ -152,6 +154,8 @@ interface FinishOptions {
   cache: boolean;
   /** Predictions already computed (run: overlapped with the simulation, src/verdict/early-prediction.ts). */
   prediction?: Prediction;
+  /** Limit-law evidence already computed (run: on helper threads, src/verdict/law-evidence.ts). */
+  evidence?: Map<Measure, LawEvidence>;
   /** --report DIR, --junit FILE, --samples FILE */
   reportDir?: string;
   junit?: string;
@@ -184,7 +188,7 @@ function finish(sim: SimulationResult, opts: FinishOptions): number {
   const prediction = opts.withChecks
     ? opts.prediction ?? predictCached(suite, { budgetSeconds: opts.predictBudget, meanTargets: predictionTargets(sim) }, { use: opts.cache })
     : undefined;
-  const verdicts = prediction ? evaluateChecks(sim, prediction, { estimates: meanEstimates(sim) }) : undefined;
+  const verdicts = prediction ? evaluateChecks(sim, prediction, { estimates: meanEstimates(sim), evidence: opts.evidence }) : undefined;
   const report = buildReport(sim, opts.startedAt, { predictions: prediction, verdicts });
   report.exitCode = verdicts && verdicts.failed > 0 ? EXIT_CHECK_FAILED : verdicts && (verdicts.undecidedClaims?.length ?? 0) > 0 ? EXIT_UNDECIDED : EXIT_OK;
   const scaling = (m: string) => prediction?.measures.find((p) => p.measure === m)?.varianceScaling ?? null;
@@ -264,6 +268,9 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
   const startedAt = new Date();
   const withChecks = !flags["no-checks"];
   const earlyPrediction = withChecks && !part ? new EarlyPrediction(suite, predictBudget, !flags["no-cache"]) : null;
+  // Law-evidence helper threads start while the last blocks run (one per worker still busy).
+  const lawThreads = withChecks && !part ? new LawEvidenceThreads() : null;
+  const tailFrom = blockCount(suite) - (workers ?? defaultWorkers());
   let outcome;
   try {
     outcome = await runSuite(suite, {
@@ -276,15 +283,20 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
       progress: !quiet && Boolean(process.stderr.isTTY),
       handleSignals: true,
       early,
-      onBlockMerged: (blocks) => earlyPrediction?.offer(blocks),
+      onBlockMerged: (blocks) => {
+        earlyPrediction?.offer(blocks);
+        if (blocks.size >= tailFrom) lawThreads?.start(suite.measure.length);
+      },
     });
   } catch (e) {
     earlyPrediction?.dispose();
+    lawThreads?.dispose();
     if (e instanceof CheckpointError) throw new UsageError(e.message);
     throw e;
   }
   if (outcome.status === "stopped") {
     earlyPrediction?.dispose();
+    lawThreads?.dispose();
     return outcome.reason === "SIGINT" ? EXIT_SIGINT : outcome.reason === "SIGTERM" ? EXIT_SIGTERM : EXIT_STOPPED;
   }
   const { sim, collector } = outcome;
@@ -294,8 +306,17 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
     process.stdout.write(`part ${part.index} of ${part.count}: ${sim.blocks.length} blocks, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths -> ${out}\n`);
     code = EXIT_OK;
   } else {
-    const prediction = earlyPrediction ? await earlyPrediction.resolve(sim) : undefined;
-    code = finish(sim, { out, quiet, withChecks, startedAt, predictBudget, cache: !flags["no-cache"], prediction, ...outputs });
+    // The helpers compute law evidence while this thread settles the predictions (and the estimates they are sized by).
+    lawThreads?.dispatch(sim);
+    let prediction: Prediction | undefined;
+    let evidence: Map<Measure, LawEvidence> | undefined;
+    try {
+      prediction = earlyPrediction ? await earlyPrediction.resolve(sim) : undefined;
+      evidence = await lawThreads?.collect();
+    } finally {
+      lawThreads?.dispose();
+    }
+    code = finish(sim, { out, quiet, withChecks, startedAt, predictBudget, cache: !flags["no-cache"], prediction, evidence, ...outputs });
   }
   rmSync(checkpoint, { force: true });
   return code;

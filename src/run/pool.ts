@@ -17,6 +17,41 @@ export function defaultWorkers(): number {
   return Math.max(1, availableParallelism());
 }
 
+/**
+ * Workers whose run has ended, kept for the next run in this process: a library caller or a script
+ * that runs many suites (the calibration, the bench) pays the thread start-up once, not per run.
+ * A parked worker is unreferenced (it never keeps the process alive), dropped if it exits, and sent
+ * the new suite (a `setup` message, src/run/worker.ts) when it is taken again.
+ */
+const parked: Worker[] = [];
+const MAX_PARKED = 64;
+
+function park(worker: Worker): void {
+  for (const event of ["message", "error", "exit"]) worker.removeAllListeners(event);
+  const drop = () => {
+    const i = parked.indexOf(worker);
+    if (i >= 0) parked.splice(i, 1);
+  };
+  worker.on("error", drop);
+  worker.on("exit", drop);
+  worker.unref();
+  if (parked.length >= MAX_PARKED) void worker.terminate();
+  else parked.push(worker);
+}
+
+function unpark(): Worker | undefined {
+  const worker = parked.pop();
+  if (!worker) return undefined;
+  for (const event of ["error", "exit"]) worker.removeAllListeners(event);
+  worker.ref();
+  return worker;
+}
+
+/** End the parked workers (tests; a process that wants its threads gone before it exits). */
+export async function endParkedWorkers(): Promise<void> {
+  await Promise.all(parked.splice(0).map((w) => w.terminate()));
+}
+
 export interface PoolOptions {
   workers: number;
   kernel: KernelKind;
@@ -82,8 +117,9 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions, compiled: WebAssemb
     };
 
     const spawn = (started?: Worker) => {
-      const worker = started ?? new Worker(WORKER_URL, { workerData: { suite, kernel: opts.kernel, module } });
-      if (started) worker.postMessage({ setup: { suite, kernel: opts.kernel, module } });
+      const taken = started ?? unpark();
+      const worker = taken ?? new Worker(WORKER_URL, { workerData: { suite, kernel: opts.kernel, module } });
+      if (taken) worker.postMessage({ setup: { suite, kernel: opts.kernel, module } });
       live.add(worker);
       let current: number | null = null;
 
@@ -94,7 +130,7 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions, compiled: WebAssemb
         if (b === undefined) {
           current = null;
           live.delete(worker);
-          void worker.terminate();
+          park(worker);
           if (live.size === 0) finish({ stopped: false, blocksRun });
           return;
         }

@@ -102,35 +102,52 @@ function validate(n: ArrayLike<number>, y: ArrayLike<number>, cov: ArrayLike<num
   return m;
 }
 
+/** n^-beta at the grid points, and x' W x for that x. */
+interface Powers {
+  xb: Float64Array;
+  xwx: number;
+}
+
 /**
  * chi2 of the model y = s2 + c n^-beta for given beta, minimised over (s2, c) or, when s2 is given,
- * over c only. The profile interval of s2 asks for ~10^4 of these on one data set, so the powers
- * n^-beta and x' W x are kept per beta (the same numbers as computed afresh: the same operations).
+ * over c only. The profile interval of s2 asks for ~10^4 of these on one data set, mostly at the
+ * same grid of beta, so the powers n^-beta and x' W x are kept per grid point (the same numbers
+ * as computed afresh: the same operations on the same beta).
  */
 class PowerLawChi2 {
-  private readonly cache = new Map<number, { xb: Float64Array; xwx: number }>();
+  private readonly grids = new Map<string, Powers[]>();
   private readonly r: Float64Array;
+  /** Scratch powers for one-off beta (the golden-section points). */
+  readonly scratch: Float64Array;
 
   constructor(readonly n: ArrayLike<number>, readonly y: ArrayLike<number>, readonly w: Float64Array) {
     this.r = new Float64Array(n.length);
+    this.scratch = new Float64Array(n.length);
   }
 
-  private powers(beta: number): { xb: Float64Array; xwx: number } {
-    let hit = this.cache.get(beta);
-    if (!hit) {
-      const m = this.n.length;
-      const xb = Float64Array.from({ length: m }, (_, i) => Math.pow(this.n[i], -beta));
-      hit = { xb, xwx: quadForm(this.w, m, xb) };
-      if (this.cache.size >= 4096) this.cache.clear();
-      this.cache.set(beta, hit);
+  /** The powers at beta, into `xb` (a new array by default). */
+  powers(beta: number, xb: Float64Array = new Float64Array(this.n.length)): Powers {
+    const m = this.n.length;
+    for (let i = 0; i < m; i++) xb[i] = Math.pow(this.n[i], -beta);
+    return { xb, xwx: quadForm(this.w, m, xb) };
+  }
+
+  /** Powers at the grid points of minimise1d(f, lo, hi, step), by index. */
+  grid(lo: number, hi: number, step: number): Powers[] {
+    const key = `${lo} ${hi} ${step}`;
+    let points = this.grids.get(key);
+    if (!points) {
+      const steps = Math.round((hi - lo) / step);
+      points = Array.from({ length: steps + 1 }, (_, i) => this.powers(i === 0 ? lo : gridPoint(lo, hi, steps, i)));
+      this.grids.set(key, points);
     }
-    return hit;
+    return points;
   }
 
   /** Over (s2, c). */
-  full(beta: number): { chi2: number; s2: number; c: number; s2SE: number } {
+  full(p: Powers): { chi2: number; s2: number; c: number; s2SE: number } {
     const m = this.n.length;
-    const { xb } = this.powers(beta);
+    const { xb } = p;
     const design = new Float64Array(2 * m);
     for (let i = 0; i < m; i++) {
       design[2 * i] = 1;
@@ -141,9 +158,9 @@ class PowerLawChi2 {
   }
 
   /** Over c only, s2 given: the chi2. */
-  givenS2(beta: number, s2: number): number {
+  givenS2(s2: number, p: Powers): number {
     const m = this.n.length;
-    const { xb, xwx } = this.powers(beta);
+    const { xb, xwx } = p;
     const r = this.r;
     for (let i = 0; i < m; i++) r[i] = this.y[i] - s2;
     const c = quadForm(this.w, m, xb, r) / xwx;
@@ -152,14 +169,17 @@ class PowerLawChi2 {
   }
 }
 
-/** Minimises f on [lo, hi]: grid of step `step`, then golden section around the best point. */
-function minimise1d(f: (b: number) => number, lo: number, hi: number, step = 0.005): { x: number; fx: number } {
+/** Grid point i of steps on [lo, hi] (i >= 1), as minimise1d places it. */
+const gridPoint = (lo: number, hi: number, steps: number, i: number) => lo + ((hi - lo) * i) / steps;
+
+/** Minimises f on [lo, hi]: grid of step `step`, then golden section around the best point; atGrid(i) = f(grid point i) when given. */
+function minimise1d(f: (b: number) => number, lo: number, hi: number, step = 0.005, atGrid?: (i: number) => number): { x: number; fx: number } {
   let bx = lo;
-  let bf = f(lo);
+  let bf = atGrid ? atGrid(0) : f(lo);
   const steps = Math.round((hi - lo) / step);
   for (let i = 1; i <= steps; i++) {
-    const x = lo + ((hi - lo) * i) / steps;
-    const fx = f(x);
+    const x = gridPoint(lo, hi, steps, i);
+    const fx = atGrid ? atGrid(i) : f(x);
     if (fx < bf) {
       bf = fx;
       bx = x;
@@ -227,12 +247,14 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
   const level = opts.level ?? 0.95;
   const w = weightMatrix(cov, m, opts.blocks);
   const model = new PowerLawChi2(n, y, w);
-  const best = minimise1d((b) => model.full(b).chi2, betaMin, betaMax);
-  const at = model.full(best.x);
+  const fitGrid = model.grid(betaMin, betaMax, 0.005);
+  const chi2At = (b: number) => model.full(model.powers(b)).chi2;
+  const best = minimise1d(chi2At, betaMin, betaMax, 0.005, (i) => model.full(fitGrid[i]).chi2);
+  const at = model.full(model.powers(best.x));
   const q = chiSquareQuantile(level, 1);
   const chi2Min = best.fx;
   const betaInterval: [number, number] = [betaMin, betaMax];
-  const prof = (b: number) => model.full(b).chi2 - chi2Min - q;
+  const prof = (b: number) => chi2At(b) - chi2Min - q;
   // beta interval: scan the grid from beta_hat outwards to the first crossing, then bisect.
   for (const dir of opts.intervals === false ? [] : [-1, 1]) {
     let inner = best.x;
@@ -256,7 +278,10 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
     }
     if (!found) betaInterval[dir < 0 ? 0 : 1] = dir < 0 ? betaMin : betaMax;
   }
-  const profS2 = (s: number) => minimise1d((b) => model.givenS2(b, s), betaMin, betaMax, 0.01).fx - chi2Min - q;
+  const profS2 = (s: number) => {
+    const s2Grid = model.grid(betaMin, betaMax, 0.01);
+    return minimise1d((b) => model.givenS2(s, model.powers(b, model.scratch)), betaMin, betaMax, 0.01, (i) => model.givenS2(s, s2Grid[i])).fx - chi2Min - q;
+  };
   const s2Interval: [number, number] = opts.intervals === false ? [NaN, NaN] : rootsAround(profS2, at.s2, at.s2SE);
   const df = m - 3;
   return {
@@ -282,7 +307,8 @@ export function fitPowerLawFixed(n: ArrayLike<number>, y: ArrayLike<number>, cov
   if (!(beta > 0)) throw new Error(`beta: must be positive, got ${beta}`);
   const level = opts.level ?? 0.95;
   const w = weightMatrix(cov, m, opts.blocks);
-  const at = new PowerLawChi2(n, y, w).full(beta);
+  const model = new PowerLawChi2(n, y, w);
+  const at = model.full(model.powers(beta));
   const z = Math.sqrt(chiSquareQuantile(level, 1));
   const df = m - 2;
   return {

@@ -93,15 +93,25 @@ function writeEntry(dir: string, file: string, entry: Entry): void {
   }
 }
 
+/** The cached predictions when a valid entry exists (what predictCached would return as a hit), else null; never computes. */
+export function cachedPrediction(suite: Suite, opts: PredictOptions = {}, cache: CacheOptions = {}): Prediction | null {
+  if (cache.use === false) return null;
+  const version = cache.version ?? toolVersion();
+  const key = predictionKey(suite, opts, version);
+  const file = join(predictionCacheDir(cache.env), `${key}.json`);
+  const hit = readEntry(file, key, version);
+  return hit ? { ...hit, cache: { status: "hit", file } } : null;
+}
+
 /** predict() through the cache. The result's `cache` says hit, miss (computed, stored if cacheable) or off. */
 export function predictCached(suite: Suite, opts: PredictOptions = {}, cache: CacheOptions = {}): Prediction {
   if (cache.use === false) return { ...predict(suite, opts), cache: { status: "off", file: null } };
+  const hit = cachedPrediction(suite, opts, cache);
+  if (hit) return hit;
   const version = cache.version ?? toolVersion();
   const key = predictionKey(suite, opts, version);
   const dir = predictionCacheDir(cache.env);
   const file = join(dir, `${key}.json`);
-  const hit = readEntry(file, key, version);
-  if (hit) return { ...hit, cache: { status: "hit", file } };
   const computed = predict(suite, opts);
   if (cacheable(computed)) {
     const prediction = JSON.parse(JSON.stringify({ measures: computed.measures })) as Prediction;

@@ -22,7 +22,8 @@ import { measureBlocks, measureSample, seriesWidth } from "../run/series.js";
 import type { MeasurePrediction, Prediction } from "../theory/types.js";
 import type { Measure } from "../suite/schema.js";
 import { extrapolate, LEVEL, plainRatios, type Extrapolation } from "./extrapolate.js";
-import { lawDecision, normalityEvidence, type LawDecision, type NormalityEvidence } from "./normality.js";
+import type { NormalityEvidence } from "./normality.js";
+import { lawEvidenceInput, lawEvidenceOf, type LawEvidence } from "./law-evidence.js";
 import { estimateMeasures, scaledSeries, type MeasureEstimates, type PointEstimate } from "./estimates.js";
 import { insideBand, pathsToDecide, toleranceBand } from "./decide.js";
 import { extrapolateCoefficient, extrapolateRemainder, linearisationEvidence, remainderDecision } from "./linearisation.js";
@@ -59,6 +60,8 @@ function predictionSource(p: MeasurePrediction): string {
 export interface VerdictCache {
   estimates?: Map<Measure, MeasureEstimates>;
   extrapolations?: Map<string, Extrapolation>;
+  /** Limit-law evidence per measure (e.g. computed on helper threads, src/verdict/law-evidence.ts). */
+  evidence?: Map<Measure, LawEvidence>;
 }
 
 export function evaluateChecks(sim: SimulationResult, prediction: Prediction, cache: VerdictCache = {}): VerdictReport {
@@ -196,17 +199,11 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
   };
 
   // --- limit laws ------------------------------------------------------------------------------
-  const evidenceCache = new Map<Measure, { ev: NormalityEvidence; decision: LawDecision } | string>();
-  const evidenceFor = (measure: Measure): { ev: NormalityEvidence; decision: LawDecision } | string => {
+  const evidenceCache = new Map<Measure, LawEvidence>(cache.evidence ?? []);
+  const evidenceFor = (measure: Measure): LawEvidence => {
     let ev = evidenceCache.get(measure);
     if (ev === undefined) {
-      const samples = measureSample(sim, measure);
-      try {
-        const e = normalityEvidence(grid, samples, blocksFor(measure), tol, alpha, measure === "vertices");
-        ev = { ev: e, decision: lawDecision(e, grid, tol, alpha) };
-      } catch (e) {
-        ev = `the kept sample at n = ${grid[G - 1]} is unusable (${(e as Error).message})`;
-      }
+      ev = lawEvidenceOf(lawEvidenceInput(sim, measure));
       evidenceCache.set(measure, ev);
     }
     return ev;

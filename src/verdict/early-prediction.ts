@@ -10,7 +10,7 @@
 // the simulation instead of running after it.
 
 import { Worker } from "node:worker_threads";
-import { predictCached } from "../theory/cache.js";
+import { cachedPrediction, predictCached } from "../theory/cache.js";
 import type { MeanTargets, Prediction } from "../theory/types.js";
 import { blockCount, canonicalJson } from "../suite/load.js";
 import type { LoadedSuite } from "../suite/schema.js";
@@ -81,6 +81,13 @@ export class EarlyPrediction {
       leadIn.push(s);
     }
     this.targets = earlyTargets(this.suite, leadIn);
+    // A cache hit is read here: no thread to start (it would cost the simulation more than the read).
+    const opts = { budgetSeconds: this.budgetSeconds, meanTargets: this.targets };
+    const hit = cachedPrediction(this.suite, opts, { use: this.cache });
+    if (hit) {
+      this.answer = Promise.resolve(hit);
+      return;
+    }
     const worker = new Worker(WORKER_URL);
     this.worker = worker;
     this.answer = new Promise<Prediction | null>((resolve) => {
@@ -88,7 +95,7 @@ export class EarlyPrediction {
       worker.once("error", () => resolve(null));
       worker.once("exit", () => resolve(null));
     }).finally(() => this.dispose());
-    worker.postMessage({ suite: this.suite, opts: { budgetSeconds: this.budgetSeconds, meanTargets: this.targets }, cache: { use: this.cache } });
+    worker.postMessage({ suite: this.suite, opts, cache: { use: this.cache } });
   }
 
   /** The predictions for the finished run: the early ones when they were asked for predictionTargets(sim), else computed now. */

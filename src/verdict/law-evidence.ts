@@ -1,0 +1,141 @@
+// The limit-law evidence of each measure (src/verdict/normality.ts), computed on helper threads
+// while the main thread does the rest of the verdict stage.
+//
+// The evidence of one measure (sorting its kept samples, the distance to the normal family, the
+// shape trends) is ~40% of the verdict stage and independent of every other measure, so `walkhull
+// run` hands the measures to LawEvidenceThreads: one helper thread per spare core (started while
+// the last blocks are simulated, so that its start-up costs no wall time), the main thread taking
+// measures from the same queue once it has computed the control-variate estimates. A helper
+// computes exactly what the main thread would (the same function on structured-cloned numbers,
+// which keep every bit); a helper that fails leaves its measure to the main thread.
+
+import { availableParallelism } from "node:os";
+import { Worker } from "node:worker_threads";
+import { measureBlocks, measureSample } from "../run/series.js";
+import type { SimulationResult } from "../run/types.js";
+import type { MomentState } from "../stats/types.js";
+import type { Measure } from "../suite/schema.js";
+import { lawDecision, normalityEvidence, type LawDecision, type NormalityEvidence } from "./normality.js";
+
+/** The evidence state of a measure, or why its kept sample is unusable. */
+export type LawEvidence = { ev: NormalityEvidence; decision: LawDecision } | string;
+
+/** What one measure's evidence is computed from (what a helper thread is sent). */
+export interface LawEvidenceInput {
+  grid: number[];
+  samples: Float64Array[];
+  blocks: MomentState[][];
+  tol: number;
+  alpha: number;
+  measure: Measure;
+}
+
+export function lawEvidenceInput(sim: Pick<SimulationResult, "suite" | "blocks" | "sample">, measure: Measure): LawEvidenceInput {
+  const suite = sim.suite;
+  return {
+    grid: suite.n,
+    samples: measureSample(sim, measure),
+    blocks: measureBlocks(sim, measure),
+    tol: suite.normalityTolerance ?? 0.01,
+    alpha: suite.alpha ?? 0.01,
+    measure,
+  };
+}
+
+/** One measure's evidence and decision (the vertex count's shape trends run in log n). */
+export function lawEvidenceOf(input: LawEvidenceInput): LawEvidence {
+  const { grid, samples, blocks, tol, alpha, measure } = input;
+  try {
+    const e = normalityEvidence(grid, samples, blocks, tol, alpha, measure === "vertices");
+    return { ev: e, decision: lawDecision(e, grid, tol, alpha) };
+  } catch (e) {
+    return `the kept sample at n = ${grid[grid.length - 1]} is unusable (${(e as Error).message})`;
+  }
+}
+
+const WORKER_URL = new URL("../../dist/verdict/law-evidence-worker.js", import.meta.url);
+
+interface Helper {
+  worker: Worker;
+  busy: Measure | null;
+  dead: boolean;
+}
+
+export class LawEvidenceThreads {
+  private helpers: Helper[] = [];
+  private queue: Measure[] = [];
+  private sim: SimulationResult | null = null;
+  private readonly results = new Map<Measure, LawEvidence>();
+  private wake: (() => void) | null = null;
+
+  /** Start the helper threads (idempotent): one per core beyond the main thread's, at most `measures - 1`. */
+  start(measures: number): void {
+    if (this.helpers.length) return;
+    const count = Math.max(0, Math.min(availableParallelism() - 1, measures - 1));
+    for (let i = 0; i < count; i++) {
+      const helper: Helper = { worker: new Worker(WORKER_URL), busy: null, dead: false };
+      const lost = () => {
+        if (helper.dead) return;
+        helper.dead = true;
+        if (helper.busy !== null && !this.results.has(helper.busy)) this.queue.push(helper.busy);
+        helper.busy = null;
+        this.wake?.();
+      };
+      helper.worker.on("message", (msg: { measure: Measure; evidence: LawEvidence }) => {
+        this.results.set(msg.measure, msg.evidence);
+        helper.busy = null;
+        this.feed(helper);
+        this.wake?.();
+      });
+      helper.worker.on("error", lost);
+      helper.worker.on("exit", lost);
+      this.helpers.push(helper);
+    }
+  }
+
+  private feed(helper: Helper): void {
+    if (helper.dead || helper.busy !== null || !this.sim) return;
+    const measure = this.queue.shift();
+    if (measure === undefined) return;
+    helper.busy = measure;
+    helper.worker.postMessage(lawEvidenceInput(this.sim, measure));
+  }
+
+  /** Hand the run's measures out: each helper gets one now (the main thread takes the rest in collect). */
+  dispatch(sim: SimulationResult): void {
+    this.start(sim.suite.measure.length);
+    this.sim = sim;
+    // The vertex count (continuity-corrected distance over few values) is the cheapest: last.
+    this.queue = [...sim.suite.measure].sort((a, b) => Number(a === "vertices") - Number(b === "vertices"));
+    for (const h of this.helpers) this.feed(h);
+  }
+
+  /** Compute the measures still queued on this thread, wait for the helpers, end them; the evidence of every measure. */
+  async collect(): Promise<Map<Measure, LawEvidence>> {
+    const sim = this.sim;
+    if (!sim) throw new Error("law evidence: collect before dispatch");
+    for (;;) {
+      // Let the helpers' answers in (each takes the next queued measure) before taking one here.
+      await new Promise((r) => setImmediate(r));
+      const measure = this.queue.shift();
+      if (measure !== undefined) {
+        this.results.set(measure, lawEvidenceOf(lawEvidenceInput(sim, measure)));
+        continue;
+      }
+      if (!this.helpers.some((h) => !h.dead && h.busy !== null)) break;
+      await new Promise<void>((r) => (this.wake = r));
+      this.wake = null;
+    }
+    this.dispose();
+    return this.results;
+  }
+
+  /** End the helper threads. */
+  dispose(): void {
+    for (const h of this.helpers) {
+      h.dead = true;
+      void h.worker.terminate();
+    }
+    this.helpers = [];
+  }
+}
