@@ -259,7 +259,7 @@ export function tieForms(c: Context): GaussianMaximumPrediction["forms"] {
       const gradients: Vec2[] = c.drifts.map(() => [0, 0]);
       if (ja !== null) gradients[ja] = [e[0], e[1]];
       if (jb !== null) gradients[jb] = [-e[0], -e[1]];
-      forms.push({ vertices: [[...pa], [...pb]], walks: [ja, jb], gradients });
+      forms.push({ ends: [[...pa], [...pb]], walks: [ja, jb], gradients });
     }
   }
   return forms;
@@ -272,7 +272,7 @@ export function tieForms(c: Context): GaussianMaximumPrediction["forms"] {
 function tieLaw(d: Diagnosis, c: Context, gap: number): boolean {
   const forms = tieForms(c);
   if (forms.length <= 1) return false;
-  const vertices = new Set(forms.flatMap((f) => f.vertices.map((v) => `${v[0]},${v[1]}`)));
+  const vertices = new Set(forms.flatMap((f) => f.ends.map((v) => `${v[0]},${v[1]}`)));
   const what = gap <= c.tol.tie
     ? `tie for the farthest pair of vertices of P (relative gap ${fmt(Math.max(gap, 0))} <= tie tolerance ${c.tol.tie}; ${vertices.size} vertices involved)`
     : "several walks share a drift at an end of the farthest pair of vertices of P (repeated vertex)";

@@ -54,8 +54,8 @@ export interface MeasurePrediction {
 export interface GaussianMaximumPrediction {
   /** The first-order constant (the diameter of P); equals meanGrowth. */
   centre: number;
-  /** One entry per form: the tied pair of vertices of P, the walk at each end (null: the origin), one gradient per walk. */
-  forms: { vertices: [Vec2, Vec2]; walks: [number | null, number | null]; gradients: Vec2[] }[];
+  /** One entry per form: the tied pair of vertices of P (`ends`), the walk at each end (null: the origin), one gradient per walk. */
+  forms: { ends: [Vec2, Vec2]; walks: [number | null, number | null]; gradients: Vec2[] }[];
   /** Covariance of the forms (m x m): sum_j g_ij' Sigma_j g_lj. */
   covariance: number[][];
   /** E M and Var M with absolute error bounds. */
