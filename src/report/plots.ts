@@ -13,7 +13,7 @@
 //   log d = a - r log n. The points share paths, so the slope's SE is indicative only.
 // - tie-cdf (a "gaussian-maximum" law, docs/theory.md sec. 7.1): the empirical CDF of the kept sample
 //   standardised as (X_n - n d)/sqrt(n) at the smallest and the largest n (at most 400 steps each,
-//   evenly spaced in rank) against the predicted CDF (src/verdict/tie-law.ts predictedCdf).
+//   evenly spaced in rank between the 0.1% and 99.9% quantiles) against the predicted CDF (src/verdict/tie-law.ts predictedCdf).
 // - hull: the points of one sample path per walk and the hull of all of them.
 
 import type { ResultRecord } from "../run/types.js";
@@ -368,8 +368,10 @@ export function tieCdfData(grid: number[], columns: ArrayLike<number>[], law: Ga
     const v = Float64Array.from(columns[g], (x) => (x - n * law.centre) / Math.sqrt(n)).filter(Number.isFinite).sort();
     const m = v.length;
     if (m < 2) return [];
-    const K = Math.min(m, maxSteps);
-    const idx = Array.from({ length: K }, (_, i) => Math.round((i * (m - 1)) / Math.max(1, K - 1)));
+    // Ranks from the 0.1% to the 99.9% quantile (the extremes would stretch the axis).
+    const a = Math.floor(0.001 * (m - 1)), b = Math.ceil(0.999 * (m - 1));
+    const K = Math.min(b - a + 1, maxSteps);
+    const idx = Array.from({ length: K }, (_, i) => a + Math.round((i * (b - a)) / Math.max(1, K - 1)));
     return [{ n, size: m, x: idx.map((i) => v[i]), F: idx.map((i) => (i + 1) / m) }];
   });
   const all = empirical.flatMap((e) => e.x);

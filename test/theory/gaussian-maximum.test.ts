@@ -5,6 +5,8 @@ import seedrandom from "seedrandom";
 import { mean as ssMean, sampleVariance } from "simple-statistics";
 import { adaptiveIntegral, bivariateNormalCdf, gaussianMaximum, ksDistanceToCdf, tabulatedCdf } from "../../src/theory/gaussian-maximum.js";
 import { normalCdf } from "../../src/stats/normal.js";
+import { predict } from "../../src/theory/predict.js";
+import type { Mat2, Vec2 } from "../../src/suite/schema.js";
 
 const PHI0 = 1 / Math.sqrt(2 * Math.PI);
 /** E max and E max^2 of three independent standard normals: 3/(2 sqrt(pi)) and 1 + sqrt(3)/(2 pi) (common practice [memory]). */
@@ -115,14 +117,29 @@ describe("four or more forms (randomised quasi-Monte Carlo, probabilistic bounds
 
 describe("against a direct Monte Carlo sample of the maximum", () => {
   // Forms W = G Z of independent standard normals Z (singular C: 3 forms of a 4-dimensional Z, one
-  // of them the constant 0 in the second case). z = 4 on means and variances (6 comparisons; a
-  // false alarm has probability < 4e-4); the KS distance against the DKW band at level 1e-4.
+  // of them the constant 0 in the second case; 2 forms of 8 normals in the third). z = 4 on means and
+  // variances (6 comparisons; a false alarm has probability < 4e-4); the KS distance against the DKW
+  // band at level 1e-4.
   const N = 200_000;
   const Z = 4;
+  // A two-pair tie: four walks with drifts at the corners of a square (0 inside), the diagonals tie; the
+  // prediction's forms g_j'X_j with X_j = chol(Sigma_j) z_j give the rows of G (8 standard normals).
+  const covs: Mat2[] = [[[2, 0.5], [0.5, 1]], [[1, 0], [0, 1]], [[1, -0.3], [-0.3, 0.6]], [[0.5, 0], [0, 1.5]]];
+  const square = predict({ title: "square", seed: 1, n: [10], paths: 1, measure: ["diameter"], walks: ([[1, 1], [-1, 1], [-1, -1], [1, -1]] as Vec2[]).map((mean, j) => ({ law: "gaussian", mean, cov: covs[j] })) }, { budgetSeconds: 2 }).measures[0];
+  const chol = (c: Mat2) => { const a = Math.sqrt(c[0][0]), b = c[1][0] / a; return [[a, 0], [b, Math.sqrt(c[1][1] - b * b)]]; };
+  const squareG = square.gaussianMaximum!.forms.map((f) => f.gradients.flatMap((g, j) => { const L = chol(covs[j]); return [g[0] * L[0][0] + g[1] * L[1][0], g[1] * L[1][1]]; }));
   const cases: { name: string; G: number[][] }[] = [
     { name: "three correlated forms (rank 3)", G: [[1, 0, 0, 0], [0.5, -0.8, 0.3, 0], [-0.5, -0.8, 0, 0.6]] },
     { name: "two forms and the constant 0", G: [[1.2, 0.4, 0, 0], [0, 0.9, -0.5, 0], [0, 0, 0, 0]] },
+    { name: "a two-pair tie (drifts at the corners of a square): the prediction's law", G: squareG },
   ];
+  it("the square's diagonals tie: two forms, the prediction's covariance is G G'", () => {
+    expect(square.limitLaw).toBe("gaussian-maximum");
+    expect(square.gaussianMaximum!.forms.length).toBe(2);
+    const C = squareG.map((a) => squareG.map((b) => a.reduce((s, x, k) => s + x * b[k], 0)));
+    C.forEach((row, i) => row.forEach((v, j) => expect(v).toBeCloseTo(square.gaussianMaximum!.covariance[i][j], 12)));
+    expect(square.gaussianMaximum!.mean).toBe(gaussianMaximum(C).mean);
+  });
   for (const { name, G } of cases) {
     it(name, () => {
       const C = G.map((a) => G.map((b) => a.reduce((s, x, k) => s + x * b[k], 0)));
@@ -131,7 +148,7 @@ describe("against a direct Monte Carlo sample of the maximum", () => {
       const gauss = () => Math.sqrt(-2 * Math.log(1 - rng())) * Math.cos(2 * Math.PI * rng());
       const sample = new Float64Array(N);
       for (let i = 0; i < N; i++) {
-        const z = [gauss(), gauss(), gauss(), gauss()];
+        const z = G[0].map(gauss);
         sample[i] = Math.max(...G.map((g) => g.reduce((s, x, k) => s + x * z[k], 0)));
       }
       const xs = Array.from(sample);
