@@ -256,8 +256,21 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
   // Coefficients: constants like any limit (gated in their family, tolerance relative to the norm
   // of the walk's claimed vector); remainder: decided at level alpha outside the Holm families.
   const linearisations: LinearisationReport[] = [];
+  // A claim identical to a built-in linearisation (or to another claim) reuses its fits.
+  const linearFits = new Map<string, { fit: ReturnType<typeof linearisationEvidence>; coef: Extrapolation[]; rem: Extrapolation | null }>();
+  const linearFit = (measure: Measure, spec: Linearisation, scaling: number) => {
+    const key = JSON.stringify([measure, spec.endpoint, spec.path ?? null, scaling]);
+    let got = linearFits.get(key);
+    if (!got) {
+      const fit = linearisationEvidence(sim, measure, spec, scaling, alpha);
+      const coef = fit.evidence.coefficients.map((_, i) => extrapolateCoefficient(fit, i, grid, sim.blocks.length, expectedRate));
+      got = { fit, coef, rem: fit.evidence.unavailable === null ? extrapolateRemainder(fit, grid, sim.blocks.length, expectedRate) : null };
+      linearFits.set(key, got);
+    }
+    return got;
+  };
   const linearisationCheck = (measure: Measure, spec: Linearisation, scaling: number, idBase: string, idTail: string, source: string, constantKind: string | null, uncalibrated: boolean, family: Family, tol: number) => {
-    const fit = linearisationEvidence(sim, measure, spec, scaling, alpha);
+    const { fit, coef, rem: exR } = linearFit(measure, spec, scaling);
     const ev = fit.evidence;
     const rep: LinearisationReport = { id: `${idBase}${idTail}`, source, family, tolerance: tol, claimed: spec, ...ev, coefficientLimits: [], remainderDecision: null };
     linearisations.push(rep);
@@ -268,7 +281,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
     }
     const norm = (vs: [number, number][] | undefined) => Math.sqrt((vs ?? []).reduce((a, v) => a + v[0] * v[0] + v[1] * v[1], 0));
     ev.coefficients.forEach((c, i) => {
-      const ex = extrapolateCoefficient(fit, i, grid, sim.blocks.length, expectedRate);
+      const ex = coef[i];
       const vecs = c.kind === "endpoint" ? spec.endpoint : spec.path;
       const own = Math.hypot(vecs![c.walk][0], vecs![c.walk][1]);
       const scale = own > 0 ? own : norm(vecs);
@@ -278,7 +291,6 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
       const ck = pending[pending.length - 1].check;
       ck.detail = `Coefficient of M_n on ${c.kind === "endpoint" ? "X" : "Y"}_n^${c.walk + 1} along (${c.direction.map((x) => +x.toFixed(4)).join(", ")}), least squares per n (jackknife over blocks, refitted per replicate), divided by n^${power}, extrapolated; claimed ${fmt(c.claimed)}. ${ck.detail}`;
     });
-    const exR = extrapolateRemainder(fit, grid, sim.blocks.length, expectedRate);
     const d = remainderDecision(ev, exR, alpha, tol, totalPaths);
     rep.remainderDecision = d;
     const rate = ev.rate;
