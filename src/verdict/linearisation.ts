@@ -306,7 +306,9 @@ export interface RemainderDecision {
  *       extrapolated limit lies above the threshold (the linear part would miss more than a
  *       fraction `tolerance` of the variance), or the decay rate's interval lies below 0 while the
  *       remainder is already above the threshold at the largest n;
- * pass: the decay rate's (1 - alpha) interval lies above 0 (and no fail);
+ * pass: the decay rate's (1 - alpha) interval lies above 0 and the limit is immaterial (its
+ *       interval's upper end below the threshold; without an extrapolated limit, the value at the
+ *       largest n below it), and no fail;
  * else inconclusive, with the paths that would put the rate interval above 0 (its SE shrinks like
  * 1/sqrt(paths); the estimate assumed unchanged).
  */
@@ -329,7 +331,13 @@ export function remainderDecision(ev: LinearisationEvidence, ex: Extrapolation |
     return { verdict: "fail", why: `${facts}. FAIL: the remainder settles above the threshold: the linear functional misses a material part of the fluctuations`, threshold, limit, pathsToDecide: null };
   if (rate && rate.ci[1] < 0 && share > tolerance)
     return { verdict: "fail", why: `${facts}. FAIL: the remainder grows relative to n^${ev.scaling} and is already above the threshold`, threshold, limit, pathsToDecide: null };
-  if (rate && rate.ci[0] > 0) return { verdict: "pass", why: `${facts}. PASS: the decay rate's interval lies above 0`, threshold, limit, pathsToDecide: null };
+  // A decreasing remainder may still settle above 0: a pass also needs its limit to be immaterial
+  // (the interval's upper end below the threshold; without a limit, the value at the largest n).
+  const immaterial = limit ? limit.interval[1] <= threshold : last.value <= threshold;
+  if (rate && rate.ci[0] > 0 && immaterial)
+    return { verdict: "pass", why: `${facts}. PASS: the decay rate's interval lies above 0 and ${limit ? "the extrapolated limit's interval" : "Var(R_n)/n^p at the largest n"} lies below the threshold`, threshold, limit, pathsToDecide: null };
+  if (rate && rate.ci[0] > 0)
+    return { verdict: "inconclusive", why: `${facts}. INCONCLUSIVE: the remainder decreases but a material limit is not excluded (${limit ? "the extrapolated limit's interval reaches above the threshold" : "no extrapolated limit, and the value at the largest n is above the threshold"}); a grid reaching larger n or more paths would decide`, threshold, limit, pathsToDecide: null };
   let need: number | null = null;
   if (rate && rate.estimate > 0 && rate.standardError > 0) need = Math.ceil(paths * ((normalQuantile(1 - alpha / 2) * rate.standardError) / rate.estimate) ** 2);
   return {
