@@ -27,6 +27,7 @@
 // Cost O(m log m) for the sort, O(m) after. Example: ksNormalDistance([-1, 0, 1]) = 0.1746.
 
 import { normalCdf } from "./normal.js";
+import { sortFloat64 } from "./sort.js";
 
 /** Sample mean and unbiased SD of a sorted or unsorted sample. */
 export function meanSd(x: ArrayLike<number>): { mean: number; sd: number } {
@@ -42,7 +43,7 @@ export function meanSd(x: ArrayLike<number>): { mean: number; sd: number } {
 export function sortedCopy(x: ArrayLike<number>, field = "sample"): Float64Array {
   const s = Float64Array.from(x);
   for (let i = 0; i < s.length; i++) if (Number.isNaN(s[i])) throw new Error(`${field}[${i}]: NaN`);
-  return s.sort();
+  return sortFloat64(s);
 }
 
 /** sup_x |F_m(x) - Phi((x - mu)/sigma)| for an ascending sample (exact with ties). */

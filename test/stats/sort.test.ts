@@ -1,0 +1,32 @@
+import { describe, expect, it } from "vitest";
+import seedrandom from "seedrandom";
+import { radixSortModule, sortFloat64 } from "../../src/stats/sort.js";
+
+describe("radix sort of f64 (build/sort.wasm) = Float64Array.prototype.sort", () => {
+  it("the module is built (npm test builds it), so the comparisons below exercise it", () => {
+    expect(radixSortModule()).not.toBeNull();
+  });
+
+  it("same array, element by element (Object.is: -0 before +0), on fixed-seed samples of every kind", () => {
+    const rng = seedrandom("radix");
+    const kinds: [string, () => number][] = [
+      ["mixed signs", () => (rng() - 0.3) * 1000],
+      ["one sign, narrow range (constant top digits)", () => 3000 + 50 * rng()],
+      ["small integers (ties)", () => Math.floor(rng() * 30)],
+      ["wide exponents", () => (rng() < 0.5 ? -1 : 1) * Math.exp(700 * (rng() - 0.5))],
+      ["zeros of both signs and subnormals", () => [0, -0, 5e-324, -5e-324, 1e-310][Math.floor(rng() * 5)]],
+    ];
+    for (const [name, draw] of kinds) {
+      for (const n of [0, 1, 255, 256, 257, 5000, 100000]) {
+        const x = Float64Array.from({ length: n }, draw);
+        if (n > 10) x.set([Infinity, -Infinity, -0, 0, -0], 3);
+        const radix = sortFloat64(Float64Array.from(x));
+        const builtin = sortFloat64(Float64Array.from(x), "builtin");
+        expect(radix.length, name).toBe(n);
+        let differ = 0;
+        for (let i = 0; i < n; i++) if (!Object.is(radix[i], builtin[i])) differ++;
+        expect(differ, `${name}, n = ${n}`).toBe(0);
+      }
+    }
+  });
+});
