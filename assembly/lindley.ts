@@ -4,14 +4,7 @@
 // TypeScript; this module owns no state but one scratch region that the caller fills.
 // Same window logic as the TypeScript loop it replaces (kept there as the fallback and the oracle).
 
-/** Start of a scratch region of `bytes` bytes (the whole region after the data segment, grown as needed). */
-export function reserve(bytes: i32): usize {
-  const base = (__heap_base + 15) & ~(<usize>15);
-  const need = base + <usize>bytes;
-  const have = (<usize>memory.size()) << 16;
-  if (need > have) memory.grow(<i32>((need - have + 0xffff) >>> 16));
-  return base;
-}
+export { reserve } from "./scratch";
 
 // Index of the first node with z >= y (nodes increase).
 @inline function firstAtLeast(z: usize, N: i32, y: f64): i32 {

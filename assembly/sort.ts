@@ -3,14 +3,7 @@
 // others: the sign bit set), at most four passes, O(n). The order is the one of Float64Array.prototype.sort
 // (-0 before +0; the caller rejects NaN). This module owns one scratch region that the caller fills.
 
-/** Start of a scratch region of `bytes` bytes (the whole region after the data segment, grown as needed). */
-export function reserve(bytes: i32): usize {
-  const base = (__heap_base + 15) & ~(<usize>15);
-  const need = base + <usize>bytes;
-  const have = (<usize>memory.size()) << 16;
-  if (need > have) memory.grow(<i32>((need - have + 0xffff) >>> 16));
-  return base;
-}
+export { reserve } from "./scratch";
 
 const SIGN: u64 = 0x8000000000000000;
 

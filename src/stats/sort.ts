@@ -5,7 +5,7 @@
 // first; the radix sort would place it by its bits).
 // Cost O(n) (radix) or O(n log n). Example: sortFloat64(Float64Array.of(2, -0, 0, -1)) -> [-1, -0, 0, 2].
 
-import { readFileSync } from "node:fs";
+import { loadHelperModule } from "../engine/helper-module.js";
 
 interface SortExports {
   memory: WebAssembly.Memory;
@@ -21,14 +21,7 @@ const RADIX_FROM = 256;
 const SORT_URL = new URL("../../build/sort.wasm", import.meta.url);
 let radix: SortExports | null | undefined;
 export function radixSortModule(): SortExports | null {
-  if (radix === undefined) {
-    try {
-      const module = new WebAssembly.Module(readFileSync(SORT_URL));
-      radix = new WebAssembly.Instance(module, { env: { abort: () => { throw new Error("sort.wasm: abort"); } } }).exports as unknown as SortExports;
-    } catch {
-      radix = null;
-    }
-  }
+  if (radix === undefined) radix = loadHelperModule<SortExports>(SORT_URL);
   return radix;
 }
 

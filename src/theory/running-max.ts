@@ -13,7 +13,7 @@
 // theory", Trans. AMS 82 (1956)), see `spitzerMaxMean`.
 // Cost: O(n^{3/2} / h^2) flops (window of width ~18 sqrt(i) around the drift, band ~17/h nodes).
 
-import { readFileSync } from "node:fs";
+import { loadHelperModule } from "../engine/helper-module.js";
 import { INV_SQRT_2PI, positivePartMean } from "./special.js";
 import { normalCdf } from "../stats/normal.js";
 
@@ -194,14 +194,7 @@ interface LindleyExports {
 const LINDLEY_URL = new URL("../../build/lindley.wasm", import.meta.url);
 let lindley: LindleyExports | null | undefined;
 export function lindleyModule(): LindleyExports | null {
-  if (lindley === undefined) {
-    try {
-      const module = new WebAssembly.Module(readFileSync(LINDLEY_URL));
-      lindley = new WebAssembly.Instance(module, { env: { abort: () => { throw new Error("lindley.wasm: abort"); } } }).exports as unknown as LindleyExports;
-    } catch {
-      lindley = null;
-    }
-  }
+  if (lindley === undefined) lindley = loadHelperModule<LindleyExports>(LINDLEY_URL);
   return lindley;
 }
 
