@@ -238,3 +238,27 @@ describe("the report's view of a linearisation", () => {
     expect((svg.match(/<circle/g) ?? []).length).toBe(l.remainder.filter((p) => p.value > 0).length);
   });
 });
+
+describe("linearisation edge cases (real hulls, small runs)", () => {
+  const run = async (walks: unknown[], claim: unknown) => {
+    const suite = validateSuite({ title: "edge", seed: 9, walks, measure: ["perimeter"], n: [10, 20, 40, 80], paths: 2048, claims: [claim] });
+    return evaluateChecks(await simulate(suite, { workers: 1 }), { measures: [] });
+  };
+  it("a walk that does not move sideways (singular Sigma): the sideways component is reported unidentified, the other is checked", async () => {
+    const r = await run([{ law: "gaussian", mean: [1, 0], cov: [[1, 0], [0, 0]] }], { measure: "perimeter", linearisation: { endpoint: [[2, 0.5]] } });
+    const l = r.linearisations![0];
+    expect(l.coefficients.map((c) => c.label)).toEqual(["g1.(1,0)"]);
+    expect(l.unidentified).toEqual(["g1 along (0,1): walks[0] does not move in that direction"]);
+    expect(r.checks.some((c) => c.id === "perimeter.linearisation.g1.(1,0).claims[0]")).toBe(true);
+  }, 60_000);
+  it("a walk that does not move at all (one atom): nothing to regress on, said so, never a pass or a fail", async () => {
+    const r = await run([{ law: "discrete", atoms: [[1, 0]], weights: [1] }], { measure: "perimeter", linearisation: { endpoint: [[2, 0]] } });
+    const checks = r.checks.filter((c) => c.kind === "linearisation");
+    expect(checks).toHaveLength(1);
+    expect(checks[0].verdict).toBe("inconclusive");
+    expect(checks[0].detail).toMatch(/no walk moves/);
+    expect(r.linearisations![0].unidentified.join(" ")).toMatch(/walks\[0\] does not move/);
+    expect(r.undecidedClaims!.map((u) => u.id)).toContain("perimeter.linearisation.remainder.claims[0]");
+  }, 60_000);
+});
+
