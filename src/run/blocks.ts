@@ -196,6 +196,21 @@ export function integerOrder(keys: ArrayLike<number>): Int32Array {
   return order;
 }
 
+/** Where each row of the concatenated candidate sets lives: its set and its row within the set. */
+function rowHomes(sets: KeptCandidates[]): { setOf: Int32Array; rowOf: Int32Array } {
+  const total = sets.reduce((t, c) => t + c.pathIndex.length, 0);
+  const setOf = new Int32Array(total);
+  const rowOf = new Int32Array(total);
+  let at = 0;
+  sets.forEach((c, set) => {
+    for (let row = 0; row < c.pathIndex.length; row++, at++) {
+      setOf[at] = set;
+      rowOf[at] = row;
+    }
+  });
+  return { setOf, rowOf };
+}
+
 /** Keep the `keep` candidates with the smallest hashes (ties by path index) out of candidate sets. */
 export function mergeKept(sets: KeptCandidates[], dim: number, keep: number = MAX_KEPT): KeptCandidates {
   const pathIndex: number[] = [];
@@ -210,16 +225,7 @@ export function mergeKept(sets: KeptCandidates[], dim: number, keep: number = MA
   const byPath = integerOrder(pathIndex);
   const byHash = integerOrder(Array.from(byPath, (r) => hash[r]));
   const rows = byHash.subarray(0, Math.min(keep, byHash.length));
-  // Where each concatenated row lives: its set and row within the set.
-  const setOf = new Int32Array(hash.length);
-  const rowOf = new Int32Array(hash.length);
-  let at = 0;
-  sets.forEach((k, set) => {
-    for (let row = 0; row < k.hash.length; row++, at++) {
-      setOf[at] = set;
-      rowOf[at] = row;
-    }
-  });
+  const { setOf, rowOf } = rowHomes(sets);
   const out: KeptCandidates = { pathIndex: new Array<number>(rows.length), hash: new Array<number>(rows.length), values: new Array<number>(rows.length * dim) };
   for (let i = 0; i < rows.length; i++) {
     const r = byPath[rows[i]];
@@ -237,12 +243,13 @@ export function keptToSample(k: KeptCandidates | KeptCandidates[], dim: number):
   const sets = Array.isArray(k) ? k : [k];
   const pathIndex = sets.flatMap((c) => c.pathIndex);
   const order = integerOrder(pathIndex);
+  const { setOf, rowOf } = rowHomes(sets);
   const values = Array.from({ length: dim }, () => new Float64Array(order.length));
-  const source: { set: KeptCandidates; row: number }[] = [];
-  for (const set of sets) for (let row = 0; row < set.pathIndex.length; row++) source.push({ set, row });
-  order.forEach((r, i) => {
-    const { set, row } = source[r];
-    for (let j = 0; j < dim; j++) values[j][i] = set.values[row * dim + j];
-  });
+  for (let i = 0; i < order.length; i++) {
+    const r = order[i];
+    const v = sets[setOf[r]].values;
+    const from = rowOf[r] * dim;
+    for (let j = 0; j < dim; j++) values[j][i] = v[from + j];
+  }
   return { pathIndex: Array.from(order, (r) => pathIndex[r]), values };
 }
