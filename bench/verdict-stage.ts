@@ -29,14 +29,15 @@ const suite = loadSuite(file, { paths: flag("--paths") });
 const loadStart = os.loadavg();
 const out = await runSuite(suite, { workers: 2, checkpoint: null, log: () => {} });
 if (out.status !== "done") throw new Error("simulation stopped");
-const prediction = predictCached(suite, { budgetSeconds: 60, meanTargets: predictionTargets(out.sim) }, { use: true });
+const simulated = out.sim;
+const prediction = predictCached(suite, { budgetSeconds: 60, meanTargets: predictionTargets(simulated) }, { use: true });
 const cpuMs = () => {
   const u = process.cpuUsage();
   return (u.user + u.system) / 1000;
 };
 
 async function stage(threads: boolean): Promise<{ wall: number; cpu: number; report: string }> {
-  const sim: SimulationResult = { ...out.sim };
+  const sim: SimulationResult = { ...simulated };
   const t0 = performance.now();
   const c0 = cpuMs();
   let evidence;
