@@ -69,3 +69,19 @@ export function quadForm(a: ArrayLike<number>, d: number, x: ArrayLike<number>, 
   }
   return s;
 }
+
+/**
+ * Eigen-decomposition of the symmetric 2x2 matrix [[a, b], [b, d]] (closed form; common practice):
+ * eigenvalues in descending order and orthonormal eigenvectors (the second is the first turned by
+ * +90 degrees).
+ */
+export function symmetricEigen2(a: number, b: number, d: number): { values: [number, number]; vectors: [[number, number], [number, number]] } {
+  const tr = a + d;
+  const disc = Math.sqrt(Math.max(0, ((a - d) / 2) ** 2 + b * b));
+  const values: [number, number] = [tr / 2 + disc, tr / 2 - disc];
+  let first: [number, number] = b !== 0 ? [values[0] - d, b] : a >= d ? [1, 0] : [0, 1];
+  const norm = Math.hypot(first[0], first[1]);
+  first = [first[0] / norm, first[1] / norm];
+  return { values, vectors: [first, [-first[1], first[0]]] };
+}
+

@@ -13,6 +13,7 @@
 
 import { projectControls, controlVariatePoint, leaveOneOutStates, type ControlBasis } from "../stats/control-variates.js";
 import { jackknifeFromReplicates } from "../stats/jackknife.js";
+import { symmetricEigen2 } from "../stats/linalg.js";
 import type { CoMomentState } from "../stats/types.js";
 import type { SimulationResult } from "../run/types.js";
 import { CONTROLS_PER_WALK, recordLayout } from "../engine/types.js";
@@ -63,13 +64,17 @@ export interface MeasureEstimates {
   sizes: number[];
 }
 
+/** Known covariance factor of (X_n, Y_n) along one unit direction u: Cov(u'T_t, u'T_s) = F[t][s] u' Sigma u, t, s in {X, Y}. */
+export function controlCovarianceFactor(n: number): [[number, number], [number, number]] {
+  return [[n, (n * (n + 1)) / 2], [(n * (n + 1)) / 2, (n * (n + 1) * (2 * n + 1)) / 6]];
+}
+
 /** The controls used at step count n, with their known covariance. */
 export function controlBasis(walks: readonly StepLaw[], n: number): ControlBasis & { labels: string[] } {
   const c = walks.length * CONTROLS_PER_WALK;
   const rows: number[][] = [];
   const labels: string[] = [];
-  // Known covariance factor of (X, Y) for one coordinate direction: F[t][u] with t, u in {X, Y}.
-  const F = [[n, (n * (n + 1)) / 2], [(n * (n + 1)) / 2, (n * (n + 1) * (2 * n + 1)) / 6]];
+  const F = controlCovarianceFactor(n);
   const parts: { walk: number; t: number; u: [number, number]; lambda: number; axis: number }[] = [];
   walks.forEach((law, j) => {
     let m;
@@ -81,14 +86,8 @@ export function controlBasis(walks: readonly StepLaw[], n: number): ControlBasis
     if (!m.secondMomentFinite) return;
     const [[a, b], [, d]] = m.cov;
     if (![a, b, d].every(Number.isFinite)) return;
-    // Eigen-decomposition of the symmetric 2x2 Sigma (orthonormal eigenvectors).
     const tr = a + d;
-    const disc = Math.sqrt(Math.max(0, ((a - d) / 2) ** 2 + b * b));
-    const eig = [tr / 2 + disc, tr / 2 - disc];
-    let first: [number, number] = b !== 0 ? [eig[0] - d, b] : a >= d ? [1, 0] : [0, 1];
-    const norm = Math.hypot(first[0], first[1]);
-    first = [first[0] / norm, first[1] / norm];
-    const vectors: [number, number][] = [first, [-first[1], first[0]]];
+    const { values: eig, vectors } = symmetricEigen2(a, b, d);
     eig.forEach((lambda, axis) => {
       if (!(lambda > 1e-12 * Math.max(tr, 1e-300))) return;
       for (const t of n >= 2 ? [0, 1] : [0]) parts.push({ walk: j, t, u: vectors[axis], lambda, axis });

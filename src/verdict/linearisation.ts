@@ -25,6 +25,7 @@
 import { controlVariatePoint, leaveOneOutStates, projectControls, type ControlBasis } from "../stats/control-variates.js";
 import { jackknifeFromReplicates } from "../stats/jackknife.js";
 import { linearGls, weightMatrix } from "../stats/gls.js";
+import { symmetricEigen2 } from "../stats/linalg.js";
 import { normalQuantile } from "../stats/normal.js";
 import type { CoMomentState } from "../stats/types.js";
 import { CONTROLS_PER_WALK, recordLayout } from "../engine/types.js";
@@ -32,6 +33,7 @@ import { stepMoments } from "../theory/step-moments.js";
 import type { SimulationResult } from "../run/types.js";
 import type { Linearisation, Measure, Vec2 } from "../suite/schema.js";
 import { extrapolate, MISFIT_SCALE_P, type Extrapolation } from "./extrapolate.js";
+import { controlCovarianceFactor } from "./estimates.js";
 
 /** One claimed coefficient (a walk, endpoint or path, one direction). */
 export interface CoefficientEvidence {
@@ -115,16 +117,13 @@ function claimRows(sim: SimulationResult, spec: Linearisation): { rows: Row[]; u
       return { rows, unidentified, unavailable: `walks[${j}] has infinite step variance: its endpoint has no covariance to regress on` };
     const [[a, b], [, d]] = cov;
     const tr = a + d;
-    const disc = Math.sqrt(Math.max(0, ((a - d) / 2) ** 2 + b * b));
-    const small = tr / 2 - disc <= 1e-12 * Math.max(tr, 1e-300);
+    const eig = symmetricEigen2(a, b, d);
+    const small = eig.values[1] <= 1e-12 * Math.max(tr, 1e-300);
     let dirs: { u: Vec2; name: string }[];
     if (!small) dirs = [{ u: [1, 0], name: "x" }, { u: [0, 1], name: "y" }];
     else {
-      let first: Vec2 = b !== 0 ? [tr / 2 + disc - d, b] : a >= d ? [1, 0] : [0, 1];
-      const l = Math.hypot(first[0], first[1]);
-      first = [first[0] / l, first[1] / l];
+      const [first, perp] = eig.vectors;
       dirs = tr > 0 ? [{ u: first, name: `(${fmtDir(first)})` }] : [];
-      const perp: Vec2 = [-first[1], first[0]];
       for (const [t, vs] of kinds) if (vs && (tr === 0 || dot(vs[j], perp) !== 0)) unidentified.push(`${t === 0 ? "g" : "h"}${j + 1}${tr === 0 ? "" : ` along (${fmtDir(perp)})`}: walks[${j}] does not move in that direction`);
     }
     for (const [t, vs] of kinds) {
@@ -145,7 +144,7 @@ function claimBasis(rows: Row[], walks: number, n: number): ControlBasis {
     transform[i * c + base] = r.u[0];
     transform[i * c + base + 1] = r.u[1];
   });
-  const F = [[n, (n * (n + 1)) / 2], [(n * (n + 1)) / 2, (n * (n + 1) * (2 * n + 1)) / 6]];
+  const F = controlCovarianceFactor(n);
   const known = new Float64Array(p * p);
   for (let i = 0; i < p; i++)
     for (let k = 0; k < p; k++) {

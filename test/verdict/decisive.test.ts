@@ -3,25 +3,13 @@
 import { describe, expect, it } from "vitest";
 import { evaluateChecks } from "../../src/verdict/checks.js";
 import { estimateMeasures } from "../../src/verdict/estimates.js";
-import { driftPerimeter, gaussian, synthesise, type PathGenerator } from "./synthetic.js";
+import { driftPerimeter, gaussian, linearPerimeter, synthesise, type PathGenerator } from "./synthetic.js";
 
 const GRID = [50, 100, 200, 400, 800, 1600];
 
-/**
- * Perimeter-like measure driven by the walk: M_n = 3 n + a X_n.x + b X_n.y + e_n with e_n a
- * Gaussian random walk in n^1/2 (Var e_n = c sqrt(n)), independent of the walk. With step
- * covariance I: Var M_n / n = a^2 + b^2 + c n^-1/2 -> a^2 + b^2 exactly, E M_n = 3 n.
- */
-function linearised(a: number, b: number, c: number): PathGenerator {
-  return (rng, grid, out, ctl) => {
-    let e = 0, prev = 0;
-    grid.forEach((n, g) => {
-      e += Math.sqrt(c * (Math.sqrt(n) - Math.sqrt(prev))) * gaussian(rng);
-      prev = n;
-      out[g] = 3 * n + a * ctl![4 * g] + b * ctl![4 * g + 1] + e;
-    });
-  };
-}
+// Perimeter-like measure driven by the walk (test/verdict/synthetic.ts linearPerimeter):
+// Var M_n / n = a^2 + b^2 + c n^-1/2 -> a^2 + b^2 exactly, E M_n = 3 n.
+const linearised = linearPerimeter;
 const A = 1.5, B = -0.8, C = 0.5;
 const SIGMA2 = A * A + B * B; // 2.89
 

@@ -20,24 +20,14 @@ import { evaluateChecks } from "../../src/verdict/checks.js";
 import { linearisationEvidence, decayRate } from "../../src/verdict/linearisation.js";
 import { loadSuite, simulate, predict, SuiteError } from "../../src/index.js";
 import { validateSuite } from "../../src/suite/load.js";
-import { gaussian, synthesise, type PathGenerator } from "./synthetic.js";
+import { gaussian, linearPerimeter, synthesise, type PathGenerator } from "./synthetic.js";
 
 const ROOT = join(dirname(fileURLToPath(import.meta.url)), "../..");
 const GRID = [50, 100, 200, 400, 800, 1600];
 const Z_MC = 4;
 const A = 1.5, B = -0.8, C = 0.5;
 
-/** M_n = 3 n + a X.x + b X.y + e_n, Var e_n = c sqrt(n) (a random walk in sqrt(n)). */
-function linear(a: number, b: number, c: number): PathGenerator {
-  return (rng, grid, out, ctl) => {
-    let e = 0, prev = 0;
-    grid.forEach((n, g) => {
-      e += Math.sqrt(c * (Math.sqrt(n) - Math.sqrt(prev))) * gaussian(rng);
-      prev = n;
-      out[g] = 3 * n + a * ctl![4 * g] + b * ctl![4 * g + 1] + e;
-    });
-  };
-}
+const linear = linearPerimeter;
 
 /** M_n = 3 n + a X.x + b X.y + d W_n, W an independent random walk (Var W_n = n): a remainder of the order of the linear part. */
 function heavyRemainder(a: number, b: number, d: number): PathGenerator {

@@ -151,3 +151,21 @@ export function synthesise(o: SynthOptions): SimulationResult {
     workers: 1,
   };
 }
+
+/**
+ * Perimeter-like measure driven by the walk: M_n = 3 n + a X_n.x + b X_n.y + e_n with e_n a
+ * Gaussian random walk in n^1/2 (Var e_n = c sqrt(n)), independent of the walk (needs `controls`).
+ * With step covariance I: Var M_n / n = a^2 + b^2 + c n^-1/2, E M_n = 3 n; the linearisation is
+ * g = (a, b) with remainder e_n (Var(R_n)/n = c n^-1/2).
+ */
+export function linearPerimeter(a: number, b: number, c: number): PathGenerator {
+  return (rng, grid, out, ctl) => {
+    let e = 0, prev = 0;
+    grid.forEach((n, g) => {
+      e += Math.sqrt(c * (Math.sqrt(n) - Math.sqrt(prev))) * gaussian(rng);
+      prev = n;
+      out[g] = 3 * n + a * ctl![4 * g] + b * ctl![4 * g + 1] + e;
+    });
+  };
+}
+
