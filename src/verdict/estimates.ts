@@ -99,7 +99,7 @@ export function controlBasis(walks: readonly StepLaw[], n: number): ControlBasis
     row[base] = part.u[0];
     row[base + 1] = part.u[1];
     rows.push(row);
-    labels.push(`${part.t === 0 ? "X" : "Y"}${part.walk + 1}.(${fmtDir(part.u)})`);
+    labels.push(`${part.t === 0 ? "X" : "Y"}${part.walk + 1}.(${formatDirection(part.u)})`);
   }
   const p = rows.length;
   const known = new Float64Array(p * p);
@@ -113,7 +113,8 @@ export function controlBasis(walks: readonly StepLaw[], n: number): ControlBasis
   return { p, c, transform: Float64Array.from(rows.flat()), known, labels };
 }
 
-const fmtDir = (u: [number, number]) => `${+u[0].toFixed(3)},${+u[1].toFixed(3)}`;
+/** A unit direction as "x,y" to 3 decimals (control and coefficient labels). */
+export const formatDirection = (u: [number, number]) => `${+u[0].toFixed(3)},${+u[1].toFixed(3)}`;
 
 function statistics(s: CoMomentState, q: number, r: number, known: Float64Array): [number, number, number, number] {
   const e = controlVariatePoint(s, q, r, known);

@@ -33,7 +33,7 @@ import { stepMoments } from "../theory/step-moments.js";
 import type { SimulationResult } from "../run/types.js";
 import type { Linearisation, Measure, Vec2 } from "../suite/schema.js";
 import { extrapolate, MISFIT_SCALE_P, type Extrapolation } from "./extrapolate.js";
-import { controlCovarianceFactor } from "./estimates.js";
+import { controlCovarianceFactor, formatDirection } from "./estimates.js";
 
 /** One claimed coefficient (a walk, endpoint or path, one direction). */
 export interface CoefficientEvidence {
@@ -98,7 +98,10 @@ interface Row {
 }
 
 const dot = (a: Vec2, b: Vec2) => a[0] * b[0] + a[1] * b[1];
-const fmtDir = (u: Vec2) => `${+u[0].toFixed(3)},${+u[1].toFixed(3)}`;
+/** The power of n a coefficient is divided by: (p - 1)/2 on an endpoint, (p - 3)/2 on an integrated path. */
+export function coefficientPower(kind: CoefficientEvidence["kind"], scaling: number): number {
+  return kind === "endpoint" ? (scaling - 1) / 2 : (scaling - 3) / 2;
+}
 
 /** Rows of the claim's controls: x and y per walk, or the eigenvectors of a singular Sigma_j with non-zero variance. */
 function claimRows(sim: SimulationResult, spec: Linearisation): { rows: Row[]; unidentified: string[]; unavailable: string | null } {
@@ -123,8 +126,8 @@ function claimRows(sim: SimulationResult, spec: Linearisation): { rows: Row[]; u
     if (!small) dirs = [{ u: [1, 0], name: "x" }, { u: [0, 1], name: "y" }];
     else {
       const [first, perp] = eig.vectors;
-      dirs = tr > 0 ? [{ u: first, name: `(${fmtDir(first)})` }] : [];
-      for (const [t, vs] of kinds) if (vs && (tr === 0 || dot(vs[j], perp) !== 0)) unidentified.push(`${t === 0 ? "g" : "h"}${j + 1}${tr === 0 ? "" : ` along (${fmtDir(perp)})`}: walks[${j}] does not move in that direction`);
+      dirs = tr > 0 ? [{ u: first, name: `(${formatDirection(first)})` }] : [];
+      for (const [t, vs] of kinds) if (vs && (tr === 0 || dot(vs[j], perp) !== 0)) unidentified.push(`${t === 0 ? "g" : "h"}${j + 1}${tr === 0 ? "" : ` along (${formatDirection(perp)})`}: walks[${j}] does not move in that direction`);
     }
     for (const [t, vs] of kinds) {
       if (!vs) continue;
@@ -206,7 +209,6 @@ export function linearisationEvidence(sim: SimulationResult, measure: Measure, s
   }
   const sizes = sim.blocks.map((b) => b.paths);
   const B = sizes.length;
-  const s = (scaling - 1) / 2;
   // Per grid point: coefficients (scaled) and remainder statistics, full and leave-one-block-out.
   const coefFull: number[][] = rows.map(() => new Array<number>(G));
   const coefLoo: number[][][] = rows.map(() => Array.from({ length: B }, () => new Array<number>(G)));
@@ -215,18 +217,19 @@ export function linearisationEvidence(sim: SimulationResult, measure: Measure, s
   const extra: { varM: number; corr: number }[] = [];
   grid.forEach((n, g) => {
     const basis = claimBasis(rows, K, n);
-    const scale = rows.map((row) => Math.pow(n, row.t === 0 ? s : s - 1));
+    const scale = rows.map((row) => Math.pow(n, coefficientPower(row.t === 0 ? "endpoint" : "path", scaling)));
     const claimedAtN = Float64Array.from(rows, (row, i) => row.claimed * scale[i]);
     const projected = sim.blocks.map((b) => projectControls(b.controlComoments[g], q, basis));
     const { full, leaveOut } = leaveOneOutStates(projected);
     const put = (st: CoMomentState, coefDst: (i: number, v: number) => void, remDst: (v: number) => void) => {
       const f = controlVariatePoint(st, q, r, basis.known);
       rows.forEach((_, i) => coefDst(i, f.coef[i] / scale[i]));
-      remDst(remainderStats(st, q, r, claimedAtN).varR / Math.pow(n, scaling));
+      const rs = remainderStats(st, q, r, claimedAtN);
+      remDst(rs.varR / Math.pow(n, scaling));
+      return rs;
     };
-    put(full, (i, v) => (coefFull[i][g] = v), (v) => (remFull[g] = v));
+    const rs = put(full, (i, v) => (coefFull[i][g] = v), (v) => (remFull[g] = v));
     leaveOut.forEach((st, j) => put(st, (i, v) => (coefLoo[i][j][g] = v), (v) => (remLoo[j][g] = v)));
-    const rs = remainderStats(full, q, r, claimedAtN);
     extra.push({ varM: rs.varM / Math.pow(n, scaling), corr: rs.corr });
   });
   const covOf = (full: number[], loo: number[][]) => jackknifeFromReplicates(full, loo, sizes).covariance;
@@ -274,12 +277,17 @@ export function decayRate(n: number[], v: number[], cov: Float64Array, blocks: n
   return { estimate: gamma, standardError: se, ci: [gamma - z * se, gamma + z * se], misfitPValue: misfit, points: keep.map((g) => n[g]), logC: fit.coef[0] };
 }
 
+/** How a coefficient's series is named in notes: b(<label>)/n^<power>. */
+export function coefficientSeriesName(c: CoefficientEvidence, scaling: number): string {
+  return `b(${c.label})/n^${coefficientPower(c.kind, scaling)}`;
+}
+
 /** Extrapolation of a coefficient series (signed: a limit below 0 is a value like any other). */
 export function extrapolateCoefficient(fit: LinearisationFit, i: number, n: number[], blocks: number, expectedRate: number): Extrapolation {
   const { measure, scaling } = fit.evidence;
   const c = fit.evidence.coefficients[i];
   const { y, cov } = fit.coefficientSeries[i];
-  return extrapolate({ measure, quantity: "varianceLimit", scaling, n, y, cov, blocks, expectedRate, signed: true, rateFreeDecides: true, name: `b(${c.label})/n^${c.kind === "endpoint" ? (scaling - 1) / 2 : (scaling - 3) / 2}` });
+  return extrapolate({ measure, quantity: "varianceLimit", scaling, n, y, cov, blocks, expectedRate, signed: true, rateFreeDecides: true, name: coefficientSeriesName(c, scaling) });
 }
 
 /** Extrapolation of Var(R_n)/n^p (signed, so that a limit estimated slightly below 0 keeps its interval). */

@@ -1,6 +1,7 @@
 // Plain-text rendering of a verdict report: one row per check, then the estimated limits.
 
 import type { VerdictReport } from "./types.js";
+import { coefficientPower } from "./linearisation.js";
 
 const num = (x: number | null | undefined): string =>
   x === null || x === undefined || Number.isNaN(x) ? "-" : !Number.isFinite(x) ? (x > 0 ? "inf" : "-inf") : Number(x.toPrecision(6)).toString();
@@ -67,7 +68,7 @@ export function renderChecks(r: VerdictReport): string {
   }
   for (const l of r.linearisations ?? []) {
     out.push("");
-    out.push(`Linearisation ${l.id} (coefficients divided by n^${(l.scaling - 1) / 2}; limits by extrapolation)`);
+    out.push(`Linearisation ${l.id} (coefficients divided by n^${coefficientPower("endpoint", l.scaling)}; limits by extrapolation)`);
     if (l.coefficients.length)
       out.push(
         table(
