@@ -92,6 +92,8 @@ export interface PowerLawOptions {
   blocks?: number;
   /** false: skip the profile intervals (s2Interval NaN, betaInterval null) when only the estimate is read. */
   intervals?: boolean;
+  /** Tests only: the plain computations (linearGls and quadForm afresh per beta), which the fast path must equal bit for bit. */
+  reference?: boolean;
 }
 
 function validate(n: ArrayLike<number>, y: ArrayLike<number>, cov: ArrayLike<number>): number {
@@ -102,34 +104,79 @@ function validate(n: ArrayLike<number>, y: ArrayLike<number>, cov: ArrayLike<num
   return m;
 }
 
-/** n^-beta at the grid points, and x' W x for that x. */
+/** n^-beta at the grid points (x), with x' W x, 1' W x and x' W 1 (each summed as quadForm sums it). */
 interface Powers {
   xb: Float64Array;
   xwx: number;
+  oneWx: number;
+  xW1: number;
 }
 
 /**
  * chi2 of the model y = s2 + c n^-beta for given beta, minimised over (s2, c) or, when s2 is given,
  * over c only. The profile interval of s2 asks for ~10^4 of these on one data set, mostly at the
- * same grid of beta, so the powers n^-beta and x' W x are kept per grid point (the same numbers
- * as computed afresh: the same operations on the same beta).
+ * same grid of beta, so the powers n^-beta and x' W x are kept per grid point, and the products of
+ * W with 1, y and y - s2 that do not depend on beta are computed once. Every number is the one
+ * linearGls and quadForm would return (the same operations in the same order: `reference` runs
+ * them, for the tests), only not recomputed.
  */
 class PowerLawChi2 {
   private readonly grids = new Map<string, Powers[]>();
+  private readonly m: number;
+  /** W 1 and W y (rows summed as quadForm does), 1' W 1 and 1' W y. */
+  private readonly w1: Float64Array;
+  private readonly wy: Float64Array;
+  private readonly oneW1: number;
+  private readonly oneWy: number;
+  /** y - s2 and W (y - s2) for the s2 of the last prepare(). */
+  private readonly r0: Float64Array;
+  private readonly wr0: Float64Array;
   private readonly r: Float64Array;
   /** Scratch powers for one-off beta (the golden-section points). */
   readonly scratch: Float64Array;
 
-  constructor(readonly n: ArrayLike<number>, readonly y: ArrayLike<number>, readonly w: Float64Array) {
-    this.r = new Float64Array(n.length);
-    this.scratch = new Float64Array(n.length);
+  constructor(readonly n: ArrayLike<number>, readonly y: ArrayLike<number>, readonly w: Float64Array, readonly reference = false) {
+    const m = (this.m = n.length);
+    this.r = new Float64Array(m);
+    this.r0 = new Float64Array(m);
+    this.wr0 = new Float64Array(m);
+    this.scratch = new Float64Array(m);
+    this.w1 = new Float64Array(m);
+    this.wy = new Float64Array(m);
+    let oneW1 = 0;
+    let oneWy = 0;
+    for (let i = 0; i < m; i++) {
+      let t1 = 0;
+      let ty = 0;
+      for (let j = 0; j < m; j++) {
+        t1 += w[i * m + j] * 1;
+        ty += w[i * m + j] * y[j];
+      }
+      this.w1[i] = t1;
+      this.wy[i] = ty;
+      oneW1 += 1 * t1;
+      oneWy += 1 * ty;
+    }
+    this.oneW1 = oneW1;
+    this.oneWy = oneWy;
   }
 
   /** The powers at beta, into `xb` (a new array by default). */
-  powers(beta: number, xb: Float64Array = new Float64Array(this.n.length)): Powers {
-    const m = this.n.length;
+  powers(beta: number, xb: Float64Array = new Float64Array(this.m)): Powers {
+    const m = this.m;
+    const w = this.w;
     for (let i = 0; i < m; i++) xb[i] = Math.pow(this.n[i], -beta);
-    return { xb, xwx: quadForm(this.w, m, xb) };
+    let xwx = 0;
+    let oneWx = 0;
+    let xW1 = 0;
+    for (let i = 0; i < m; i++) {
+      let t = 0;
+      for (let j = 0; j < m; j++) t += w[i * m + j] * xb[j];
+      xwx += xb[i] * t;
+      oneWx += 1 * t;
+      xW1 += xb[i] * this.w1[i];
+    }
+    return { xb, xwx, oneWx, xW1 };
   }
 
   /** Powers at the grid points of minimise1d(f, lo, hi, step), by index. */
@@ -144,9 +191,51 @@ class PowerLawChi2 {
     return points;
   }
 
-  /** Over (s2, c). */
+  /** Over (s2, c): linearGls on the design [1, x], written out for k = 2 (its Cholesky inverse included). */
   full(p: Powers): { chi2: number; s2: number; c: number; s2SE: number } {
-    const m = this.n.length;
+    if (this.reference) return this.fullReference(p);
+    const m = this.m;
+    const { xb } = p;
+    let ty1 = 0;
+    for (let i = 0; i < m; i++) ty1 += xb[i] * this.wy[i];
+    // cholesky([1'W1, 1'Wx; x'W1, x'Wx]), then its inverse column by column (choleskySolve), symmetrised.
+    let s = this.oneW1;
+    if (!(s > 0)) throw new Error(`design: not positive definite (pivot 0 = ${s})`);
+    const l00 = Math.sqrt(s);
+    const l10 = p.xW1 / l00;
+    s = p.xwx;
+    s -= l10 * l10;
+    if (!(s > 0)) throw new Error(`design: not positive definite (pivot 1 = ${s})`);
+    const l11 = Math.sqrt(s);
+    let y0 = 1 / l00;
+    let y1 = (0 - l10 * y0) / l11;
+    const inv10 = y1 / l11;
+    const inv00 = (y0 - l10 * inv10) / l00;
+    y0 = 0 / l00;
+    s = 1;
+    s -= l10 * y0;
+    y1 = s / l11;
+    const inv11 = y1 / l11;
+    const inv01 = (y0 - l10 * inv11) / l00;
+    const off = 0.5 * (inv01 + inv10);
+    let c0 = 0;
+    c0 += inv00 * this.oneWy;
+    c0 += off * ty1;
+    let c1 = 0;
+    c1 += off * this.oneWy;
+    c1 += inv11 * ty1;
+    const r = this.r;
+    for (let i = 0; i < m; i++) {
+      let f = 0;
+      f += 1 * c0;
+      f += xb[i] * c1;
+      r[i] = this.y[i] - f;
+    }
+    return { chi2: quadForm(this.w, m, r), s2: c0, c: c1, s2SE: Math.sqrt(inv00) };
+  }
+
+  private fullReference(p: Powers): { chi2: number; s2: number; c: number; s2SE: number } {
+    const m = this.m;
     const { xb } = p;
     const design = new Float64Array(2 * m);
     for (let i = 0; i < m; i++) {
@@ -157,9 +246,40 @@ class PowerLawChi2 {
     return { chi2: g.chi2, s2: g.coef[0], c: g.coef[1], s2SE: Math.sqrt(g.coefCov[0]) };
   }
 
-  /** Over c only, s2 given: the chi2. */
+  /** Sets the s2 of the following givenPrepared calls (y - s2 and W (y - s2) do not depend on beta). */
+  private prepare(s2: number): void {
+    const m = this.m;
+    const w = this.w;
+    for (let i = 0; i < m; i++) this.r0[i] = this.y[i] - s2;
+    for (let i = 0; i < m; i++) {
+      let t = 0;
+      for (let j = 0; j < m; j++) t += w[i * m + j] * this.r0[j];
+      this.wr0[i] = t;
+    }
+  }
+
+  /** Over c only, s2 given (by prepare): the chi2. */
+  private givenPrepared(p: Powers): number {
+    const m = this.m;
+    const { xb, xwx } = p;
+    let s = 0;
+    for (let i = 0; i < m; i++) s += xb[i] * this.wr0[i];
+    const c = s / xwx;
+    const r = this.r;
+    for (let i = 0; i < m; i++) r[i] = this.r0[i] - c * xb[i];
+    return quadForm(this.w, m, r);
+  }
+
+  /** chi2 over c only as a function of the powers, for one s2 (prepared once in the fast path). */
+  givenS2At(s2: number): (p: Powers) => number {
+    if (this.reference) return (p) => this.givenS2(s2, p);
+    this.prepare(s2);
+    return (p) => this.givenPrepared(p);
+  }
+
+  /** Over c only, s2 given: the chi2 (the plain computation). */
   givenS2(s2: number, p: Powers): number {
-    const m = this.n.length;
+    const m = this.m;
     const { xb, xwx } = p;
     const r = this.r;
     for (let i = 0; i < m; i++) r[i] = this.y[i] - s2;
@@ -246,7 +366,7 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
   const betaMax = opts.betaMax ?? 2;
   const level = opts.level ?? 0.95;
   const w = weightMatrix(cov, m, opts.blocks);
-  const model = new PowerLawChi2(n, y, w);
+  const model = new PowerLawChi2(n, y, w, opts.reference === true);
   const fitGrid = model.grid(betaMin, betaMax, 0.005);
   const chi2At = (b: number) => model.full(model.powers(b)).chi2;
   const best = minimise1d(chi2At, betaMin, betaMax, 0.005, (i) => model.full(fitGrid[i]).chi2);
@@ -280,7 +400,8 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
   }
   const profS2 = (s: number) => {
     const s2Grid = model.grid(betaMin, betaMax, 0.01);
-    return minimise1d((b) => model.givenS2(s, model.powers(b, model.scratch)), betaMin, betaMax, 0.01, (i) => model.givenS2(s, s2Grid[i])).fx - chi2Min - q;
+    const chi2 = model.givenS2At(s);
+    return minimise1d((b) => chi2(model.powers(b, model.scratch)), betaMin, betaMax, 0.01, (i) => chi2(s2Grid[i])).fx - chi2Min - q;
   };
   const s2Interval: [number, number] = opts.intervals === false ? [NaN, NaN] : rootsAround(profS2, at.s2, at.s2SE);
   const df = m - 3;
@@ -307,7 +428,7 @@ export function fitPowerLawFixed(n: ArrayLike<number>, y: ArrayLike<number>, cov
   if (!(beta > 0)) throw new Error(`beta: must be positive, got ${beta}`);
   const level = opts.level ?? 0.95;
   const w = weightMatrix(cov, m, opts.blocks);
-  const model = new PowerLawChi2(n, y, w);
+  const model = new PowerLawChi2(n, y, w, opts.reference === true);
   const at = model.full(model.powers(beta));
   const z = Math.sqrt(chiSquareQuantile(level, 1));
   const df = m - 2;
