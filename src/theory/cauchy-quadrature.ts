@@ -14,6 +14,8 @@
 // against its target first): Clenshaw–Curtis rules of 5 and 9 points (nested: every refinement
 // reuses the points already computed), then halving. A panel's error is |Q_N - Q_{N/2}| (the
 // error of the coarser rule: conservative for Q_N) plus the weighted errors of its points.
+// Mirror [derived]: when a reflection of the plane maps the walks onto themselves, the integrand is
+// symmetric about the reflection's line and half the circle is integrated (mirrorLine).
 // In x: composite 16-point Gauss–Legendre on panels graded from 4 min_j s_j up to 2 sqrt(n) min_j s_j.
 // Dominance short cut [derived]: at an angle where one walk b outruns the others, E max_j M_j =
 // E M_b + int F_b (1 - prod_{a != b} F_a) dx, and
@@ -66,6 +68,8 @@ export interface CauchyOptions {
    * (int max_j E M_j(t) dt) for callers that want a relative target. Default: 1e-6 * estimate.
    */
   tolerance?: (n: number, estimate: number) => number;
+  /** Integrate half the circle when the walks have a mirror line (default true; false: the whole circle, for cross-checks). */
+  mirror?: boolean;
 }
 
 function ccRule(N: number): { x: Float64Array; w: Float64Array } {
@@ -147,6 +151,55 @@ function breakpoints(walks: GaussianWalk[], nMax: number): { t: number; width: n
     out.push({ t: Math.atan2(-dx, dy), width: Math.min(0.2, sMax / (Math.sqrt(nMax) * len)) });
   }
   return out;
+}
+
+/**
+ * A mirror line of the suite: the reflection R across the line at angle `alpha` maps the walks onto
+ * themselves (R mu_i = mu_{pi(i)}, R C_i R^T = C_{pi(i)} for a permutation pi, to 1e-12 relative).
+ * Then <S^i, e_{2 alpha - t}> = <R S^i, e_t> has the law of <S^{pi(i)}, e_t>, so h(2 alpha - t) = h(t) and
+ * the circle is integrated over [alpha, alpha + pi], twice [derived]. `slack(n)` bounds |h(2 alpha - t) - h(t)|
+ * from the rounding left in the match: coupling the steps, |E max_i S'_i - E max_i S_i| <= n |dm| + |ds| E max_i |S_i - i m|
+ * <= n |dm| + 2 sqrt(n) |ds| (Doob's L2 inequality), |ds| <= |dC| / s_min, and |max_j a_j - max_j b_j| <= sum_j |a_j - b_j|.
+ */
+export function mirrorLine(walks: GaussianWalk[]): { alpha: number; slack: (n: number) => number } | null {
+  const anchor = walks.find((w) => Math.hypot(w.mean[0], w.mean[1]) > 0);
+  if (!anchor) return null;
+  const scaleM = Math.max(...walks.map((w) => Math.hypot(w.mean[0], w.mean[1])));
+  const scaleC = Math.max(...walks.map((w) => Math.abs(w.cov[0][0]) + Math.abs(w.cov[1][1]) + 2 * Math.abs(w.cov[0][1])));
+  const sMin = Math.min(...walks.map((w) => {
+    const [[a, b], [, d]] = w.cov;
+    return Math.sqrt(Math.max(0, (a + d) / 2 - Math.sqrt(((a - d) / 2) ** 2 + b * b)));
+  }));
+  const phi0 = Math.atan2(anchor.mean[1], anchor.mean[0]);
+  for (const target of walks) {
+    const alpha = (phi0 + Math.atan2(target.mean[1], target.mean[0])) / 2;
+    const c = Math.cos(2 * alpha), s = Math.sin(2 * alpha);
+    const used = walks.map(() => false);
+    let dm = 0, dc = 0;
+    const matched = walks.every((w) => {
+      const m: Vec2 = [c * w.mean[0] + s * w.mean[1], s * w.mean[0] - c * w.mean[1]];
+      // R C R^T for R = [[c, s], [s, -c]].
+      const [[a, b], [, d]] = w.cov;
+      const ra = c * c * a + 2 * c * s * b + s * s * d, rd = s * s * a - 2 * c * s * b + c * c * d;
+      const rb = c * s * (a - d) - (c * c - s * s) * b;
+      let best = -1, bestM = Infinity, bestC = Infinity;
+      walks.forEach((v, j) => {
+        if (used[j]) return;
+        const em = Math.hypot(m[0] - v.mean[0], m[1] - v.mean[1]);
+        const ec = Math.hypot(ra - v.cov[0][0], rd - v.cov[1][1], Math.SQRT2 * (rb - v.cov[0][1]));
+        if (em <= 1e-12 * scaleM && ec <= 1e-12 * scaleC && em / scaleM + ec / scaleC < bestM / scaleM + bestC / scaleC) {
+          best = j; bestM = em; bestC = ec;
+        }
+      });
+      if (best < 0) return false;
+      used[best] = true;
+      dm += bestM;
+      dc += bestC;
+      return true;
+    });
+    if (matched) return { alpha, slack: (n: number) => n * dm + (2 * Math.sqrt(n) * dc) / sMin };
+  }
+  return null;
 }
 
 function projected(w: GaussianWalk, t: number): { m: number; s: number } {
@@ -314,7 +367,17 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
   targets.forEach((t, q) => {
     if (!(t > 0)) throw new Error(`tolerance: the error bound for n = ${kept[q]} must be positive, got ${t}`);
   });
-  const initialPanels = (n: number) => angularPanels(breakpoints(walks, n));
+  // A mirror line halves the circle: panels on [alpha, alpha + pi] (both ends made breakpoints), weighted twice.
+  const mirror = opts.mirror === false ? null : mirrorLine(walks);
+  const fold = mirror ? 2 : 1;
+  const initialPanels = (n: number) => {
+    if (!mirror) return angularPanels(breakpoints(walks, n));
+    const { alpha } = mirror;
+    const ends = [{ t: alpha, width: 0.2 }, { t: alpha + Math.PI, width: 0.2 }];
+    const TWO_PI = 2 * Math.PI;
+    return angularPanels([...breakpoints(walks, n), ...ends])
+      .filter(([a, b]) => ((((a + b) / 2 - alpha) % TWO_PI) + TWO_PI) % TWO_PI < Math.PI);
+  };
   // Time one evaluation at the largest n (after a warm-up), then drop the largest n while the first
   // pass (FIRST_ORDER + 1 points per panel) would not fit the cap.
   expectedMaxAtAngle(walks, 0.3, [Math.min(kept[0], 50)], h);
@@ -347,11 +410,11 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
     return v;
   };
   const evaluate = (a: number, b: number, order: number): Panel => {
-    const half = (b - a) / 2, mid = (a + b) / 2;
+    const half = (fold * (b - a)) / 2, mid = (a + b) / 2;
     const fine = cc(order), coarse = cc(order / 2);
     const value = new Array<number>(Q).fill(0), crude = new Array<number>(Q).fill(0), pointError = new Array<number>(Q).fill(0);
     for (let j = 0; j <= order; j++) {
-      const t = j === 0 ? b : j === order ? a : mid + half * fine.x[j];
+      const t = j === 0 ? b : j === order ? a : mid + ((b - a) / 2) * fine.x[j];
       const v = at(t);
       for (let q = 0; q < Q; q++) {
         value[q] += fine.w[j] * v.values[q] * half;
@@ -371,8 +434,14 @@ export function cauchyMeanPerimeter(walks: GaussianWalk[], ns: number[], opts: C
         fixed[q] += p.pointError[q];
       }
     }
-    // Rounding in the sums (a generous 1e-15 relative per angle).
-    for (let q = 0; q < Q; q++) error[q] += 1e-15 * Math.abs(value[q]) * seen.size;
+    // Rounding in the sums (a generous 1e-15 relative per angle); the mirror's slack over the folded half.
+    for (let q = 0; q < Q; q++) {
+      error[q] += 1e-15 * Math.abs(value[q]) * seen.size;
+      if (mirror) {
+        error[q] += Math.PI * mirror.slack(kept[q]);
+        fixed[q] += Math.PI * mirror.slack(kept[q]);
+      }
+    }
     return { value, error, fixed };
   };
   let sum = totals();

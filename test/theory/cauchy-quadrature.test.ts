@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { cauchyMeanPerimeter } from "../../src/theory/cauchy-quadrature.js";
+import { cauchyMeanPerimeter, mirrorLine } from "../../src/theory/cauchy-quadrature.js";
 import { lindleyModule, runningMaxLaw, spitzerMaxMean, spitzerMaxMeans } from "../../src/theory/running-max.js";
 import { spitzerWidomMeans } from "../../src/theory/spitzer-widom.js";
 import type { Mat2, Vec2 } from "../../src/suite/schema.js";
@@ -95,6 +95,38 @@ describe("k-walk Cauchy quadrature (item 3)", () => {
     }
     const { mean, se } = meanSE(sample);
     expect(Math.abs(mean - c.means[String(n)])).toBeLessThanOrEqual(4 * se);
+  });
+
+  it("finds a mirror line of the walks (a reflection that permutes them), and none when there is none", () => {
+    const I: Mat2 = [[1, 0], [0, 1]];
+    expect(mirrorLine([{ mean: [1, 0], cov: I }, { mean: [0, 1], cov: I }])?.alpha).toBeCloseTo(Math.PI / 4, 14);
+    // Across the x-axis: the covariances must map too (c01 -> -c01).
+    const sheared: { mean: Vec2; cov: Mat2 }[] = [
+      { mean: [1, 0.5], cov: [[1, 0.3], [0.3, 2]] },
+      { mean: [1, -0.5], cov: [[1, -0.3], [-0.3, 2]] },
+    ];
+    const m = mirrorLine(sheared)!;
+    expect(Math.abs(Math.sin(m.alpha))).toBeLessThan(1e-15);
+    expect(m.slack(1000)).toBeLessThan(1e-9);
+    expect(mirrorLine([sheared[0], { mean: [1, -0.5], cov: [[1, 0.3], [0.3, 2]] }])).toBeNull();
+    expect(mirrorLine([{ mean: [1, 0], cov: I }, { mean: [0, 1.01], cov: I }])).toBeNull();
+    expect(mirrorLine([{ mean: [0, 0], cov: I }])).toBeNull();
+  });
+
+  it("integrates half the circle on a mirror line: same means as the whole circle within both bounds, on fewer angles", () => {
+    const cases: { mean: Vec2; cov: Mat2 }[][] = [
+      [{ mean: [1, 0], cov: [[1, 0], [0, 1]] }, { mean: [0, 1], cov: [[1, 0], [0, 1]] }],
+      [{ mean: [1, 0.5], cov: [[1, 0.3], [0.3, 2]] }, { mean: [1, -0.5], cov: [[1, -0.3], [-0.3, 2]] }],
+    ];
+    for (const walks of cases) {
+      const half = cauchyMeanPerimeter(walks, [10, 120], { tolerance: () => 1e-5 });
+      const whole = cauchyMeanPerimeter(walks, [10, 120], { tolerance: () => 1e-5, mirror: false });
+      expect(half.angles).toBeLessThan(0.7 * whole.angles);
+      for (const n of ["10", "120"]) {
+        expect(half.errors[n]).toBeLessThanOrEqual(1e-5);
+        expect(Math.abs(half.means[n] - whole.means[n])).toBeLessThanOrEqual(half.errors[n] + whole.errors[n]);
+      }
+    }
   });
 
   it("drops the largest n and says so when the budget is tiny", () => {
