@@ -7,16 +7,16 @@ import { parseArgs, type ParseArgsConfig } from "node:util";
 import { existsSync, readFileSync, rmSync, statSync } from "node:fs";
 import { dirname, join } from "node:path";
 import { blockCount, loadSuite, SuiteError } from "./suite/load.js";
-import type { LoadedSuite, Measure } from "./suite/schema.js";
+import type { LoadedSuite } from "./suite/schema.js";
 import { renderPredictionTable } from "./theory/predict.js";
 import { predictCached } from "./theory/cache.js";
 import type { Prediction } from "./theory/types.js";
-import { evaluateChecks, renderChecks } from "./verdict/checks.js";
+import { evaluateChecks, prepareVerdictCache, renderChecks, type VerdictCache } from "./verdict/checks.js";
 import { runSuite } from "./run/run.js";
 import type { EarlyWorkers } from "./run/prestart.js";
 import { EarlyPrediction, predictionTargets } from "./verdict/early-prediction.js";
 import { meanEstimates } from "./verdict/accuracy.js";
-import { LawEvidenceThreads, type LawEvidence } from "./verdict/law-evidence.js";
+import { LawEvidenceThreads } from "./verdict/law-evidence.js";
 import { defaultWorkers } from "./run/pool.js";
 import { CheckpointError, type PartSpec } from "./run/checkpoint.js";
 import { combinePartFiles, CombineError, partFile } from "./run/parts.js";
@@ -154,8 +154,8 @@ interface FinishOptions {
   cache: boolean;
   /** Predictions already computed (run: overlapped with the simulation, src/verdict/early-prediction.ts). */
   prediction?: Prediction;
-  /** Limit-law evidence already computed (run: on helper threads, src/verdict/law-evidence.ts). */
-  evidence?: Map<Measure, LawEvidence>;
+  /** What the checks compute from the simulation, already computed (run: while helper threads compute the limit-law evidence). */
+  verdictCache?: VerdictCache;
   /** --report DIR, --junit FILE, --samples FILE */
   reportDir?: string;
   junit?: string;
@@ -188,7 +188,7 @@ function finish(sim: SimulationResult, opts: FinishOptions): number {
   const prediction = opts.withChecks
     ? opts.prediction ?? predictCached(suite, { budgetSeconds: opts.predictBudget, meanTargets: predictionTargets(sim) }, { use: opts.cache })
     : undefined;
-  const verdicts = prediction ? evaluateChecks(sim, prediction, { estimates: meanEstimates(sim), evidence: opts.evidence }) : undefined;
+  const verdicts = prediction ? evaluateChecks(sim, prediction, { estimates: meanEstimates(sim), ...opts.verdictCache }) : undefined;
   const report = buildReport(sim, opts.startedAt, { predictions: prediction, verdicts });
   report.exitCode = verdicts && verdicts.failed > 0 ? EXIT_CHECK_FAILED : verdicts && (verdicts.undecidedClaims?.length ?? 0) > 0 ? EXIT_UNDECIDED : EXIT_OK;
   const scaling = (m: string) => prediction?.measures.find((p) => p.measure === m)?.varianceScaling ?? null;
@@ -306,17 +306,20 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
     process.stdout.write(`part ${part.index} of ${part.count}: ${sim.blocks.length} blocks, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths -> ${out}\n`);
     code = EXIT_OK;
   } else {
-    // The helpers compute law evidence while this thread settles the predictions (and the estimates they are sized by).
+    // The helpers compute law evidence while this thread settles the predictions (and the estimates
+    // they are sized by) and everything else the checks compute from the simulation; then this
+    // thread takes the measures still queued.
     lawThreads?.dispatch(sim);
     let prediction: Prediction | undefined;
-    let evidence: Map<Measure, LawEvidence> | undefined;
+    const verdictCache: VerdictCache = {};
     try {
       prediction = earlyPrediction ? await earlyPrediction.resolve(sim) : undefined;
-      evidence = await lawThreads?.collect();
+      if (prediction) prepareVerdictCache(sim, prediction, verdictCache);
+      verdictCache.evidence = await lawThreads?.collect();
     } finally {
       lawThreads?.dispose();
     }
-    code = finish(sim, { out, quiet, withChecks, startedAt, predictBudget, cache: !flags["no-cache"], prediction, evidence, ...outputs });
+    code = finish(sim, { out, quiet, withChecks, startedAt, predictBudget, cache: !flags["no-cache"], prediction, verdictCache, ...outputs });
   }
   rmSync(checkpoint, { force: true });
   return code;

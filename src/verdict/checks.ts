@@ -62,6 +62,34 @@ export interface VerdictCache {
   extrapolations?: Map<string, Extrapolation>;
   /** Limit-law evidence per measure (e.g. computed on helper threads, src/verdict/law-evidence.ts). */
   evidence?: Map<Measure, LawEvidence>;
+  /** Linearisation fits and their extrapolations, by measure, linearisation, scaling, alpha and expected rate. */
+  linearFits?: Map<string, LinearFit>;
+  /**
+   * Set by prepareVerdictCache only: the law checks do not compute missing evidence (their checks
+   * in that pass are thrown away), so that everything else is computed while the evidence is
+   * computed elsewhere.
+   */
+  lawsPending?: boolean;
+}
+
+/** A linearisation's per-n fit with its coefficients' and remainder's extrapolations. */
+interface LinearFit {
+  fit: ReturnType<typeof linearisationEvidence>;
+  coef: Extrapolation[];
+  rem: Extrapolation | null;
+}
+
+/**
+ * Fill `cache` with everything the checks of (sim, prediction) compute from the simulation alone
+ * (control-variate estimates, extrapolations, linearisation fits), without the limit-law evidence:
+ * `walkhull run` calls it while helper threads compute that evidence, and evaluateChecks then
+ * reads the cache (the same numbers: each entry is what evaluateChecks would compute itself).
+ */
+export function prepareVerdictCache(sim: SimulationResult, prediction: Prediction, cache: VerdictCache): void {
+  cache.estimates ??= estimateMeasures(sim);
+  cache.extrapolations ??= new Map();
+  cache.linearFits ??= new Map();
+  evaluateChecks(sim, prediction, { estimates: cache.estimates, extrapolations: cache.extrapolations, linearFits: cache.linearFits, evidence: cache.evidence, lawsPending: true });
 }
 
 export function evaluateChecks(sim: SimulationResult, prediction: Prediction, cache: VerdictCache = {}): VerdictReport {
@@ -202,6 +230,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
   const evidenceCache = new Map<Measure, LawEvidence>(cache.evidence ?? []);
   const evidenceFor = (measure: Measure): LawEvidence => {
     let ev = evidenceCache.get(measure);
+    if (ev === undefined && cache.lawsPending) return "pending";
     if (ev === undefined) {
       ev = lawEvidenceOf(lawEvidenceInput(sim, measure));
       evidenceCache.set(measure, ev);
@@ -257,9 +286,9 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
   // of the walk's claimed vector); remainder: decided at level alpha outside the Holm families.
   const linearisations: LinearisationReport[] = [];
   // A claim identical to a built-in linearisation (or to another claim) reuses its fits.
-  const linearFits = new Map<string, { fit: ReturnType<typeof linearisationEvidence>; coef: Extrapolation[]; rem: Extrapolation | null }>();
+  const linearFits = (cache.linearFits ??= new Map<string, LinearFit>());
   const linearFit = (measure: Measure, spec: Linearisation, scaling: number) => {
-    const key = JSON.stringify([measure, spec.endpoint, spec.path ?? null, scaling]);
+    const key = JSON.stringify([measure, spec.endpoint, spec.path ?? null, scaling, alpha, expectedRate]);
     let got = linearFits.get(key);
     if (!got) {
       const fit = linearisationEvidence(sim, measure, spec, scaling, alpha);
