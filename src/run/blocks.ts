@@ -238,9 +238,47 @@ export function mergeKept(sets: KeptCandidates[], dim: number, keep: number = MA
   return out;
 }
 
+/**
+ * The sets in ascending path order when each set's path indexes ascend and the sets' ranges do not
+ * overlap (a run's blocks, in any arrival order): then concatenating them in that order IS the
+ * ascending path order, with no per-row sort; null otherwise.
+ */
+function runOrder(sets: KeptCandidates[]): KeptCandidates[] | null {
+  const nonEmpty = sets.filter((c) => c.pathIndex.length > 0);
+  for (const c of nonEmpty) {
+    const p = c.pathIndex;
+    for (let r = 1; r < p.length; r++) if (!(p[r] > p[r - 1])) return null;
+  }
+  const ordered = [...nonEmpty].sort((a, b) => a.pathIndex[0] - b.pathIndex[0]);
+  for (let i = 1; i < ordered.length; i++) {
+    const prev = ordered[i - 1].pathIndex;
+    if (!(ordered[i].pathIndex[0] > prev[prev.length - 1])) return null;
+  }
+  return ordered;
+}
+
 /** The kept sample as columns, in ascending path order (of one candidate set, or of all of several sets). */
 export function keptToSample(k: KeptCandidates | KeptCandidates[], dim: number): KeptSample {
   const sets = Array.isArray(k) ? k : [k];
+  const runs = runOrder(sets);
+  if (runs) {
+    const total = runs.reduce((t, c) => t + c.pathIndex.length, 0);
+    const values = Array.from({ length: dim }, () => new Float64Array(total));
+    const pathIndex = new Array<number>(total);
+    let at = 0;
+    for (const c of runs) {
+      const v = c.values;
+      const rows = c.pathIndex.length;
+      for (let r = 0; r < rows; r++) pathIndex[at + r] = c.pathIndex[r];
+      // Column by column: each column's writes are sequential.
+      for (let j = 0; j < dim; j++) {
+        const col = values[j];
+        for (let r = 0, from = j; r < rows; r++, from += dim) col[at + r] = v[from];
+      }
+      at += rows;
+    }
+    return { pathIndex, values };
+  }
   const pathIndex = sets.flatMap((c) => c.pathIndex);
   const order = integerOrder(pathIndex);
   const { setOf, rowOf } = rowHomes(sets);

@@ -52,4 +52,29 @@ describe("kept sample order without comparison sorts", () => {
     expect(direct).toEqual(keptToSample(all, 4));
     expect(direct.pathIndex).toEqual(Array.from({ length: 300 }, (_, i) => i));
   });
+
+  it("keptToSample puts rows in ascending path order, whether the sets are disjoint ranges (concatenated) or interleaved (sorted)", () => {
+    const rng = seedrandom("kept-runs");
+    const dim = 3;
+    // Reference: a comparison sort of row records by path index.
+    const reference = (sets: KeptCandidates[]) => {
+      const rows = sets.flatMap((k) => k.pathIndex.map((p, r) => ({ p, v: k.values.slice(r * dim, (r + 1) * dim) })));
+      rows.sort((a, b) => a.p - b.p);
+      return { pathIndex: rows.map((r) => r.p), values: Array.from({ length: dim }, (_, j) => Float64Array.from(rows, (r) => r.v[j])) };
+    };
+    // Blocks thinned by a threshold (gaps inside each range), one of them empty, in shuffled order.
+    const thinned = blockSets(rng, 10, 30, dim).map((k, b) => {
+      const keep = k.pathIndex.map((_, r) => b !== 3 && rng() < 0.6);
+      return { pathIndex: k.pathIndex.filter((_, r) => keep[r]), hash: k.hash.filter((_, r) => keep[r]), values: k.values.filter((_, i) => keep[Math.floor(i / dim)]) };
+    });
+    expect(keptToSample(thinned, dim)).toEqual(reference(thinned));
+    // Interleaved sets (even and odd paths): the ranges overlap, so the rows must be sorted.
+    const interleaved: KeptCandidates[] = [0, 1].map((parity) => {
+      const pathIndex = Array.from({ length: 40 }, (_, i) => 2 * i + parity);
+      return { pathIndex, hash: pathIndex.map((p) => pathHash(7, p)), values: pathIndex.flatMap(() => [rng(), rng(), rng()]) };
+    });
+    const got = keptToSample(interleaved, dim);
+    expect(got).toEqual(reference(interleaved));
+    expect(got.pathIndex).toEqual(Array.from({ length: 80 }, (_, i) => i));
+  });
 });
