@@ -121,44 +121,53 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions, compiled: WebAssemb
       const worker = taken ?? new Worker(WORKER_URL, { workerData: { suite, kernel: opts.kernel, module } });
       if (taken) worker.postMessage({ setup: { suite, kernel: opts.kernel, module } });
       live.add(worker);
-      let current: number | null = null;
+      // Blocks sent to this worker and not yet answered, oldest first. A second block is sent
+      // ahead while the queue still holds more than one block per live worker, so that a worker
+      // starts its next block as soon as it posts a result instead of waiting for this thread's
+      // reply (the round trip, and this thread's merge and GC, cost ~1 ms per block); near the
+      // end one block at a time, so that the last blocks go to whichever worker is free first.
+      const inFlight: number[] = [];
 
       const next = () => {
         if (finished) return;
         if (opts.shouldStop?.()) return finish({ stopped: true, blocksRun });
-        const b = queue.shift();
-        if (b === undefined) {
-          current = null;
+        while (inFlight.length === 0 || (inFlight.length < 2 && queue.length > live.size)) {
+          const b = queue.shift();
+          if (b === undefined) break;
+          inFlight.push(b);
+          const fail = failArmed && b === opts.failOnceAtBlock;
+          if (fail) failArmed = false;
+          worker.postMessage({ block: b, fail });
+        }
+        if (inFlight.length === 0) {
           live.delete(worker);
           park(worker);
           if (live.size === 0) finish({ stopped: false, blocksRun });
-          return;
         }
-        current = b;
-        const fail = failArmed && b === opts.failOnceAtBlock;
-        if (fail) failArmed = false;
-        worker.postMessage({ block: b, fail });
       };
 
       const lost = (why: string) => {
         if (finished || !live.has(worker)) return;
         live.delete(worker);
         void worker.terminate();
-        if (current !== null) {
+        if (inFlight.length) {
+          const current = inFlight[0];
           const t = (tries.get(current) ?? 0) + 1;
           tries.set(current, t);
           if (t >= MAX_TRIES_PER_BLOCK) return finish(new Error(`block ${current} failed ${t} times; last: ${why}`));
           opts.onWarning?.(`worker failed on block ${current} (${why}); re-running the block on a new worker`);
-          queue.unshift(current);
-          current = null;
+          queue.unshift(...inFlight.splice(0));
         }
         spawn();
       };
 
       worker.on("message", (msg: { ready?: boolean; block: number; out?: BlockOutput; error?: string }) => {
-        if (finished) return;
+        // A lost worker's late answers are dropped: its blocks are already queued again.
+        if (finished || !live.has(worker)) return;
         if (msg.ready) return next();
         if (msg.error !== undefined || !msg.out) return lost(msg.error ?? "no output");
+        const at = inFlight.indexOf(msg.block);
+        if (at >= 0) inFlight.splice(at, 1);
         try {
           opts.collector.add(msg.out);
         } catch (e) {
@@ -168,8 +177,11 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions, compiled: WebAssemb
         opts.onBlock?.(msg.block, msg.out);
         next();
       });
-      worker.on("error", (e) => lost(e.message));
-      worker.on("exit", (code) => lost(`exited with code ${code}`));
+      // An uncaught error is acted on at 'exit': the answers the worker posted before it failed can
+      // arrive after the 'error' event but not after 'exit' (Node drains the worker's port before it), so the block it failed on is known then.
+      let failure: string | null = null;
+      worker.on("error", (e) => (failure ??= e.message));
+      worker.on("exit", (code) => lost(failure ?? `exited with code ${code}`));
     };
 
     const n = Math.min(opts.workers, queue.length);
