@@ -28,15 +28,26 @@ export async function loadWasmModule(url: URL = WASM_URL): Promise<WebAssembly.M
   return WebAssembly.compile(new Uint8Array(bytes));
 }
 
-/** The compiled kernel (default build/walkhull.wasm; the bench passes build/walkhull.bench.wasm). */
+/**
+ * Modules compiled in this process, by URL: a module is immutable, and reusing it keeps the code V8
+ * has already optimised (its tier-up is per module), so the workers of a later run in the same
+ * process (the bench, the calibration, a library caller) do not start again from baseline code.
+ */
+const compiledModules = new Map<string, WebAssembly.Module>();
+
+/** The compiled kernel (default build/walkhull.wasm; the bench passes build/walkhull.bench.wasm), compiled once per process. */
 export function loadWasmModuleSync(url: URL = WASM_URL): WebAssembly.Module {
+  const known = compiledModules.get(url.href);
+  if (known) return known;
   let bytes: Buffer;
   try {
     bytes = readFileSync(url);
   } catch (err) {
     throw missing(err);
   }
-  return new WebAssembly.Module(new Uint8Array(bytes));
+  const module = new WebAssembly.Module(new Uint8Array(bytes));
+  compiledModules.set(url.href, module);
+  return module;
 }
 
 /**
