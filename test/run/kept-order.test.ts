@@ -64,7 +64,7 @@ describe("kept sample order without comparison sorts", () => {
     };
     // Blocks thinned by a threshold (gaps inside each range), one of them empty, in shuffled order.
     const thinned = blockSets(rng, 10, 30, dim).map((k, b) => {
-      const keep = k.pathIndex.map((_, r) => b !== 3 && rng() < 0.6);
+      const keep = k.pathIndex.map(() => b !== 3 && rng() < 0.6);
       return { pathIndex: k.pathIndex.filter((_, r) => keep[r]), hash: k.hash.filter((_, r) => keep[r]), values: k.values.filter((_, i) => keep[Math.floor(i / dim)]) };
     });
     expect(keptToSample(thinned, dim)).toEqual(reference(thinned));
