@@ -29,11 +29,11 @@ export function andersonDarlingNormal(x: ArrayLike<number>): AndersonDarlingResu
   return andersonDarlingNormalSorted(sortedCopy(x));
 }
 
-/** andersonDarlingNormal of a sample already in ascending order (e.g. sortedCopy's result). */
-export function andersonDarlingNormalSorted(s: ArrayLike<number>): AndersonDarlingResult {
+/** andersonDarlingNormal of a sample already in ascending order (e.g. sortedCopy's result); `moments`: its meanSd when the caller has it. */
+export function andersonDarlingNormalSorted(s: ArrayLike<number>, moments?: { mean: number; sd: number }): AndersonDarlingResult {
   const m = s.length;
   if (m < 8) throw new Error(`sample: Anderson-Darling needs at least 8 values, got ${m}`);
-  const { mean, sd } = meanSd(s);
+  const { mean, sd } = moments ?? meanSd(s);
   if (!(sd > 0)) throw new Error("sample: zero variance");
   let sum = 0;
   for (let i = 0; i < m; i++) {

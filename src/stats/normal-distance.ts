@@ -58,10 +58,26 @@ export interface TieGroups {
   value: Float64Array;
 }
 
+/** 0, 1, 2, ... shared by the tie groups of every sample without ties (read-only). */
+let identity = new Int32Array(0);
+
+/**
+ * The tie groups of an ascending sample. Without ties (every continuous sample) no array is
+ * allocated: start and end are one shared identity array and value is the sample itself (when it
+ * is a Float64Array), so callers must not write into them.
+ */
 export function tieGroups(sorted: ArrayLike<number>): TieGroups {
   const m = sorted.length;
-  let count = 0;
-  for (let i = 0; i < m; i++) if (i === 0 || sorted[i] !== sorted[i - 1]) count++;
+  let count = m > 0 ? 1 : 0;
+  for (let i = 1; i < m; i++) if (sorted[i] !== sorted[i - 1]) count++;
+  if (count === m && sorted instanceof Float64Array) {
+    if (identity.length < m) {
+      identity = new Int32Array(Math.max(m, 2 * identity.length));
+      for (let i = 0; i < identity.length; i++) identity[i] = i;
+    }
+    const ids = identity.subarray(0, m);
+    return { start: ids, end: ids, value: sorted };
+  }
   const start = new Int32Array(count);
   const end = new Int32Array(count);
   const value = new Float64Array(count);
@@ -99,24 +115,34 @@ function midpointDistance(groups: TieGroups, m: number, mu: number, sigma: numbe
 const PRUNE_SLACK = 1e-12;
 
 /**
+ * Phi at the tie groups, memoised for one distance evaluation: an entry is valid when its stamp is
+ * the evaluation's number. One pair of arrays serves every search (numbers are never reused
+ * between evaluations, so an entry another search wrote is never taken for one of this one's).
+ */
+let phiMemo = new Float64Array(0);
+let stampMemo = new Int32Array(0);
+let stampNow = 0;
+/** Depth-first stack of the search (ranges lo..hi and their bounds); depth <= log2(groups) + 1. */
+const stackLo = new Int32Array(64);
+const stackHi = new Int32Array(64);
+const stackBound = new Float64Array(64);
+
+/**
  * ksDistanceSorted(sorted, mu, sigma) with the same result, bit for bit, at a fraction of its cost
  * when called many times on one sample (the minimiser's ~100-200 evaluations). Branch and bound over
  * the tie groups: for groups lo..hi (ascending values, so ascending Phi and F_m), every term of
- * the distance is at most max(F_m(after hi) - Phi(x_lo), Phi(x_hi) - F_m(before lo)); a range whose
- * bound cannot beat the best term found so far (minus PRUNE_SLACK) is skipped, others are split.
- * The search starts from the group that gave the maximum at the previous call (the minimiser moves
- * little between calls). The maximum is a maximum of the same floating-point terms as the plain
- * loop computes, so it is the same number.
+ * the distance is at most max(F_m(after hi) - Phi(x_lo), Phi(x_hi) - F_m(before lo)) (for one
+ * group, this bound IS its term); a range whose bound cannot beat the best term found so far
+ * (minus PRUNE_SLACK) is skipped, others are split. The search starts from the group that gave the
+ * maximum at the previous call (the minimiser moves little between calls). The maximum is a
+ * maximum of the same floating-point terms as the plain loop computes, so it is the same number.
  */
 export class KsDistanceSearch {
   private readonly groups: TieGroups;
   private readonly m: number;
-  private readonly phi: Float64Array;
-  private readonly stamp: Int32Array;
   private call = 0;
   private mu = 0;
   private sigma = 1;
-  private best = 0;
   private argBest = 0;
   /** Phi evaluations made (for tests and profiling). */
   evaluations = 0;
@@ -124,71 +150,101 @@ export class KsDistanceSearch {
   constructor(readonly sorted: ArrayLike<number>, groups?: TieGroups) {
     this.groups = groups ?? tieGroups(sorted);
     this.m = sorted.length;
-    this.phi = new Float64Array(this.groups.start.length);
-    this.stamp = new Int32Array(this.groups.start.length);
   }
 
   private cdf(g: number): number {
-    if (this.stamp[g] === this.call) return this.phi[g];
+    if (stampMemo[g] === this.call) return phiMemo[g];
     this.evaluations++;
     const p = normalCdf((this.groups.value[g] - this.mu) / this.sigma);
-    this.phi[g] = p;
-    this.stamp[g] = this.call;
+    phiMemo[g] = p;
+    stampMemo[g] = this.call;
     return p;
   }
 
-  /** The term of group g, computed exactly as ksDistanceSorted does. */
-  private term(g: number): number {
-    const p = this.cdf(g);
-    return Math.max((this.groups.end[g] + 1) / this.m - p, p - this.groups.start[g] / this.m);
-  }
-
+  /** The larger of the two terms' bounds over groups lo..hi; for lo = hi, the group's term exactly as ksDistanceSorted computes it. */
   private bound(lo: number, hi: number): number {
     return Math.max((this.groups.end[hi] + 1) / this.m - this.cdf(lo), this.cdf(hi) - this.groups.start[lo] / this.m);
   }
 
-  private visit(lo: number, hi: number): void {
-    if (lo === hi) {
-      const t = this.term(lo);
-      if (t > this.best) {
-        this.best = t;
-        this.argBest = lo;
-      }
-      return;
+  /**
+   * sup_x |F_m(x) - Phi((x - mu)/sigma)|, equal to ksDistanceSorted(sorted, mu, sigma). With a
+   * `cap`, the search may stop at the first term >= cap and return it: the result is then the
+   * exact distance when that is below cap, and some value >= cap (not the distance) otherwise.
+   */
+  distance(mu: number, sigma: number, cap = Infinity): number {
+    // Guard: a NaN anywhere (it cannot arise from finite inputs) would make the pruning meaningless.
+    if (!Number.isFinite(mu) || !Number.isFinite(sigma)) return ksDistanceSorted(this.sorted, mu, sigma);
+    const count = this.groups.value.length;
+    if (stampMemo.length < count) {
+      phiMemo = new Float64Array(count);
+      stampMemo = new Int32Array(count);
     }
-    if (this.bound(lo, hi) + PRUNE_SLACK <= this.best) return;
-    const mid = (lo + hi) >> 1;
-    // The half with the larger bound first: it more likely holds the maximum, which prunes the other.
-    if (this.bound(mid + 1, hi) > this.bound(lo, mid)) {
-      this.visit(mid + 1, hi);
-      this.visit(lo, mid);
-    } else {
-      this.visit(lo, mid);
-      this.visit(mid + 1, hi);
+    if (stampNow >= 0x7fffffff) {
+      stampMemo.fill(0);
+      stampNow = 0;
     }
-  }
-
-  /** sup_x |F_m(x) - Phi((x - mu)/sigma)|, equal to ksDistanceSorted(sorted, mu, sigma). */
-  distance(mu: number, sigma: number): number {
-    const count = this.groups.start.length;
-    this.call++;
+    this.call = ++stampNow;
     this.mu = mu;
     this.sigma = sigma;
-    this.best = 0;
-    const seed = Math.min(this.argBest, count - 1);
-    const t = this.term(seed);
-    if (t > this.best) this.best = t;
-    this.argBest = seed;
-    this.visit(0, count - 1);
-    const d = this.best;
-    // Guard: a NaN anywhere (it cannot arise from finite inputs) would make the pruning meaningless.
-    return Number.isNaN(d) || !Number.isFinite(mu) || !Number.isFinite(sigma) ? ksDistanceSorted(this.sorted, mu, sigma) : d;
+    let arg = Math.min(this.argBest, count - 1);
+    let best = 0;
+    const seed = this.bound(arg, arg);
+    if (seed > best) best = seed;
+    let sp = 0;
+    if (count > 1 && !(best >= cap)) {
+      stackLo[0] = 0;
+      stackHi[0] = count - 1;
+      stackBound[0] = this.bound(0, count - 1);
+      sp = 1;
+    }
+    while (sp > 0) {
+      sp--;
+      const lo = stackLo[sp];
+      const hi = stackHi[sp];
+      if (stackBound[sp] + PRUNE_SLACK <= best) continue;
+      const mid = (lo + hi) >> 1;
+      const left = this.bound(lo, mid);
+      const right = this.bound(mid + 1, hi);
+      if (lo === mid && left > best) {
+        best = left;
+        arg = lo;
+      }
+      if (mid + 1 === hi && right > best) {
+        best = right;
+        arg = hi;
+      }
+      if (best >= cap) break;
+      // The half with the larger bound is searched first: it more likely holds the maximum, which prunes the other.
+      if (right > left) {
+        if (lo < mid) sp = push(sp, lo, mid, left);
+        if (mid + 1 < hi) sp = push(sp, mid + 1, hi, right);
+      } else {
+        if (mid + 1 < hi) sp = push(sp, mid + 1, hi, right);
+        if (lo < mid) sp = push(sp, lo, mid, left);
+      }
+    }
+    this.argBest = arg;
+    return Number.isNaN(best) ? ksDistanceSorted(this.sorted, mu, sigma) : best;
   }
 }
 
-function nelderMead2(f: (p: [number, number]) => number, start: [number, number], scale: [number, number], iters = 200): number {
+function push(sp: number, lo: number, hi: number, bound: number): number {
+  stackLo[sp] = lo;
+  stackHi[sp] = hi;
+  stackBound[sp] = bound;
+  return sp + 1;
+}
+
+/**
+ * Nelder-Mead minimum of f over the plane. f(p, cap) may return any value >= cap instead of f(p)
+ * when f(p) >= cap: every trial point whose value is only compared with a threshold (a rejected
+ * reflection, expansion or contraction) is given that threshold as cap, and a value >= cap takes
+ * the same branch as f(p) itself, so the search follows the same steps and returns the same number
+ * as with exact values.
+ */
+function nelderMead2(f: (p: [number, number], cap: number) => number, start: [number, number], scale: [number, number], iters = 200): number {
   let simplex: [number, number][] = [start, [start[0] + scale[0], start[1]], [start[0], start[1] + scale[1]]];
-  let values = simplex.map(f);
+  let values = simplex.map((p) => f(p, Infinity));
   for (let it = 0; it < iters; it++) {
     const spread = Math.max(...values) - Math.min(...values);
     const size = Math.max(Math.abs(simplex[1][0] - simplex[0][0]), Math.abs(simplex[2][0] - simplex[0][0]), Math.abs(simplex[1][1] - simplex[0][1]), Math.abs(simplex[2][1] - simplex[0][1]));
@@ -199,10 +255,12 @@ function nelderMead2(f: (p: [number, number]) => number, start: [number, number]
     const c: [number, number] = [(simplex[0][0] + simplex[1][0]) / 2, (simplex[0][1] + simplex[1][1]) / 2];
     const w = simplex[2];
     const refl: [number, number] = [2 * c[0] - w[0], 2 * c[1] - w[1]];
-    const fr = f(refl);
+    // Read only if below values[1].
+    const fr = f(refl, values[1]);
     if (fr < values[0]) {
       const exp: [number, number] = [3 * c[0] - 2 * w[0], 3 * c[1] - 2 * w[1]];
-      const fe = f(exp);
+      // Read only if below fr.
+      const fe = f(exp, fr);
       if (fe < fr) {
         simplex[2] = exp;
         values[2] = fe;
@@ -215,14 +273,15 @@ function nelderMead2(f: (p: [number, number]) => number, start: [number, number]
       values[2] = fr;
     } else {
       const con: [number, number] = [(c[0] + w[0]) / 2, (c[1] + w[1]) / 2];
-      const fc = f(con);
+      // Read only if below values[2].
+      const fc = f(con, values[2]);
       if (fc < values[2]) {
         simplex[2] = con;
         values[2] = fc;
       } else {
         for (const k of [1, 2]) {
           simplex[k] = [(simplex[0][0] + simplex[k][0]) / 2, (simplex[0][1] + simplex[k][1]) / 2];
-          values[k] = f(simplex[k]);
+          values[k] = f(simplex[k], Infinity);
         }
       }
     }
@@ -238,30 +297,42 @@ export function normalDistance(x: ArrayLike<number>, tol: number, a = 0.01): Nor
   return normalDistanceSorted(sortedCopy(x), tol, a);
 }
 
+/** What the distance and Anderson-Darling read of one ascending sample, computed once and shared. */
+export interface SortedStats {
+  mean: number;
+  sd: number;
+  groups: TieGroups;
+}
+
+/** meanSd and tieGroups of an ascending sample. */
+export function sortedStats(s: Float64Array): SortedStats {
+  return { ...meanSd(s), groups: tieGroups(s) };
+}
+
 /**
  * normalDistance of a sample already in ascending order (e.g. sortedCopy's result). `plain`: every
- * distance by the plain loop ksDistanceSorted (the reference the pruned search is tested against).
+ * distance by the plain loop ksDistanceSorted, exact at every trial point (the reference the
+ * pruned search is tested against). `stats`: sortedStats(s) when the caller has it.
  */
-export function normalDistanceSorted(s: Float64Array, tol: number, a = 0.01, plain = false): NormalDistance {
+export function normalDistanceSorted(s: Float64Array, tol: number, a = 0.01, plain = false, stats: SortedStats = sortedStats(s)): NormalDistance {
   if (!(tol > 0 && tol < 1)) throw new Error(`normalityTolerance: must be in (0, 1), got ${tol}`);
   if (!(a > 0 && a < 1)) throw new Error(`alpha: must be in (0, 1), got ${a}`);
   const m = s.length;
   if (m < 5) throw new Error(`sample: needs at least 5 values, got ${m}`);
-  const { mean, sd } = meanSd(s);
+  const { mean, sd, groups } = stats;
   if (!(sd > 0)) throw new Error("sample: zero variance");
-  let distinct = 1;
-  for (let i = 1; i < m; i++) if (s[i] !== s[i - 1]) distinct++;
+  // Values equal to another value: the members of the groups of two or more.
+  const distinct = groups.value.length;
   let tied = 0;
-  for (let i = 0; i < m; i++) if ((i > 0 && s[i] === s[i - 1]) || (i + 1 < m && s[i] === s[i + 1])) tied++;
+  if (distinct < m) for (let g = 0; g < distinct; g++) if (groups.end[g] > groups.start[g]) tied += groups.end[g] - groups.start[g] + 1;
   const tiedFraction = tied / m;
   const metric: "jumps" | "midpoints" = tiedFraction > 0.5 && distinct >= 2 ? "midpoints" : "jumps";
-  const groups = tieGroups(s);
   const search = new KsDistanceSearch(s, groups);
-  const dist = (mu: number, sigma: number) => (metric === "jumps" ? (plain ? ksDistanceSorted(s, mu, sigma) : search.distance(mu, sigma)) : midpointDistance(groups, m, mu, sigma));
-  const start = dist(mean, sd);
+  const dist = (mu: number, sigma: number, cap: number) => (metric === "jumps" ? (plain ? ksDistanceSorted(s, mu, sigma) : search.distance(mu, sigma, cap)) : midpointDistance(groups, m, mu, sigma));
+  const start = dist(mean, sd, Infinity);
   // With the "jumps" metric the first distance IS the moment fit's (same sample, same mu and sigma).
   const momentFit = metric === "jumps" ? start : ksDistanceSorted(s, mean, sd);
-  const found = nelderMead2((p) => dist(mean + p[0] * sd, sd * Math.exp(p[1])), [0, 0], [0.05, 0.05]);
+  const found = nelderMead2((p, cap) => dist(mean + p[0] * sd, sd * Math.exp(p[1]), cap), [0, 0], [0.05, 0.05]);
   const minimum = Math.min(start, found);
   const margin = Math.sqrt(Math.log(2 / a) / (2 * m));
   const resolutionFloor = 0.87 / Math.sqrt(m);

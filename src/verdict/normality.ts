@@ -10,9 +10,9 @@
 
 import { andersonDarlingNormalSorted, type AndersonDarlingResult } from "../stats/anderson-darling.js";
 import { blockJackknife, jackknifeFromReplicates } from "../stats/jackknife.js";
-import { lillieforsPValue, meanSd, sortedCopy } from "../stats/lilliefors.js";
+import { lillieforsPValue, sortedCopy } from "../stats/lilliefors.js";
 import { mergeAll, summarize } from "../stats/moments.js";
-import { KsDistanceSearch, normalDistanceSorted, type NormalDistance } from "../stats/normal-distance.js";
+import { KsDistanceSearch, normalDistanceSorted, sortedStats, type NormalDistance } from "../stats/normal-distance.js";
 import { normalQuantile, normalSf, twoSidedNormalP } from "../stats/normal.js";
 import { linearGls } from "../stats/gls.js";
 import { excessKurtosisZ, skewnessZ } from "../stats/shape.js";
@@ -190,12 +190,14 @@ function leastSquaresIntercept(y: number[], x: number[], k: number, identity: Fl
 export function normalityEvidence(n: number[], samples: ArrayLike<number>[], blocks: MomentState[][], tol: number, alpha: number, logTrend = false): NormalityEvidence {
   const G = n.length;
   // Each sample sorted once (the distances and Anderson-Darling read the same ascending copy).
+  // Their mean, SD and tie groups computed once too (the same numbers each reader would compute).
   const sorted = samples.map((x) => sortedCopy(x));
+  const stats = sorted.map(sortedStats);
   const last = sorted[G - 1];
-  const distance = normalDistanceSorted(last, tol, alpha);
+  const distance = normalDistanceSorted(last, tol, alpha, false, stats[G - 1]);
   const lillieforsD = distance.momentFit;
   const lillieforsP = lillieforsPValue(lillieforsD, distance.size);
-  const anderson = distance.size >= 8 ? andersonDarlingNormalSorted(last) : { statistic: NaN, modified: NaN, pValue: NaN };
+  const anderson = distance.size >= 8 ? andersonDarlingNormalSorted(last, stats[G - 1]) : { statistic: NaN, modified: NaN, pValue: NaN };
   const merged = summarize(mergeAll(blocks.map((b) => b[G - 1])));
   let skewGrowth: NormalityEvidence["skewGrowth"] = null;
   let skewPersistence: NormalityEvidence["skewPersistence"] = null;
@@ -242,9 +244,9 @@ export function normalityEvidence(n: number[], samples: ArrayLike<number>[], blo
     if (m < 5) continue;
     // The Lilliefors statistic (lilliefors.ts ksNormalDistance, the same number): at the largest n
     // it is the distance's moment fit; elsewhere one pruned evaluation (normal-distance.ts).
-    const { mean, sd } = meanSd(sorted[g]);
+    const { mean, sd, groups } = stats[g];
     if (!(sd > 0)) continue;
-    const d = g === G - 1 ? distance.momentFit : new KsDistanceSearch(sorted[g]).distance(mean, sd);
+    const d = g === G - 1 ? distance.momentFit : new KsDistanceSearch(sorted[g], groups).distance(mean, sd);
     if (d > 3 * (0.87 / Math.sqrt(m))) points.push({ n: n[g], d });
     else below.push(n[g]);
   }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import seedrandom from "seedrandom";
 import { ksDistanceSorted, ksNormalDistance, meanSd, sortedCopy } from "../../src/stats/lilliefors.js";
-import { KsDistanceSearch, normalDistance, normalDistanceSorted } from "../../src/stats/normal-distance.js";
+import { KsDistanceSearch, normalDistance, normalDistanceSorted, sortedStats, tieGroups } from "../../src/stats/normal-distance.js";
 import { andersonDarlingNormal, andersonDarlingNormalSorted } from "../../src/stats/anderson-darling.js";
 
 function gaussian(rng: () => number): number {
@@ -41,6 +41,49 @@ describe("pruned KS distance (KsDistanceSearch) = the plain loop, bit for bit", 
     }
   });
 
+  it("with a cap: the exact distance when it is below the cap, a value >= the cap otherwise", () => {
+    const rng = seedrandom("caps");
+    let capped = 0;
+    for (const { x } of samples()) {
+      const s = sortedCopy(x);
+      const { mean, sd } = meanSd(s);
+      const search = new KsDistanceSearch(s);
+      for (let k = 0; k < 100; k++) {
+        const spread = k < 50 ? 0.05 : 1e-3;
+        const mu = mean + spread * sd * gaussian(rng);
+        const sigma = sd * Math.exp(spread * gaussian(rng));
+        const exact = ksDistanceSorted(s, mu, sigma);
+        // Caps around the distance, as the minimiser's thresholds are (the values of its simplex).
+        const cap = exact * (1 + 0.02 * gaussian(rng));
+        const d = search.distance(mu, sigma, cap);
+        if (exact < cap) expect(d).toBe(exact);
+        else {
+          expect(d).toBeGreaterThanOrEqual(cap);
+          if (d !== exact) capped++;
+        }
+      }
+    }
+    // The early stop happened (else the test would not test it).
+    expect(capped).toBeGreaterThan(10);
+  });
+
+  it("tie groups without ties (shared arrays) equal the general construction", () => {
+    const rng = seedrandom("groups");
+    for (const m of [1, 2, 7, 1000, 3000]) {
+      const s = sortedCopy(Array.from({ length: m }, () => gaussian(rng)));
+      const fast = tieGroups(s);
+      // A plain array takes the general path (it allocates the three arrays).
+      const general = tieGroups(Array.from(s));
+      expect(general.value).not.toBe(s);
+      expect(Array.from(fast.start)).toEqual(Array.from(general.start));
+      expect(Array.from(fast.end)).toEqual(Array.from(general.end));
+      expect(Array.from(fast.value)).toEqual(Array.from(general.value));
+    }
+    // With ties, the general construction.
+    const g = tieGroups(Float64Array.of(1, 1, 2, 3, 3, 3));
+    expect([Array.from(g.start), Array.from(g.end), Array.from(g.value)]).toEqual([[0, 2, 3], [1, 2, 5], [1, 2, 3]]);
+  });
+
   it("saves Phi evaluations on a large sample near the minimum (the reason it exists)", () => {
     const rng = seedrandom("savings");
     const s = sortedCopy(Array.from({ length: 100000 }, () => gaussian(rng)));
@@ -57,6 +100,7 @@ describe("pruned KS distance (KsDistanceSearch) = the plain loop, bit for bit", 
       const fast = normalDistanceSorted(s, 0.01, 0.01);
       const plain = normalDistanceSorted(s, 0.01, 0.01, true);
       expect(fast, name).toEqual(plain);
+      expect(normalDistanceSorted(s, 0.01, 0.01, false, sortedStats(s)), name).toEqual(plain);
       expect(normalDistance(x, 0.01, 0.01), name).toEqual(fast);
       expect(fast.momentFit, name).toBe(ksNormalDistance(x));
     }
