@@ -27,7 +27,7 @@
 // Cost O(m log m) for the sort, O(m) after. Example: ksNormalDistance([-1, 0, 1]) = 0.1746.
 
 import { normalCdf } from "./normal.js";
-import { sortFloat64 } from "./sort.js";
+import { sortedFloat64 } from "./sort.js";
 
 /** Sample mean and unbiased SD of a sorted or unsorted sample. */
 export function meanSd(x: ArrayLike<number>): { mean: number; sd: number } {
@@ -41,9 +41,8 @@ export function meanSd(x: ArrayLike<number>): { mean: number; sd: number } {
 
 /** Returns an ascending copy (NaNs rejected with a field-named error). */
 export function sortedCopy(x: ArrayLike<number>, field = "sample"): Float64Array {
-  const s = Float64Array.from(x);
-  for (let i = 0; i < s.length; i++) if (Number.isNaN(s[i])) throw new Error(`${field}[${i}]: NaN`);
-  return sortFloat64(s);
+  for (let i = 0; i < x.length; i++) if (Number.isNaN(x[i])) throw new Error(`${field}[${i}]: NaN`);
+  return sortedFloat64(x);
 }
 
 /** sup_x |F_m(x) - Phi((x - mu)/sigma)| for an ascending sample (exact with ties). */

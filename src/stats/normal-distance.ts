@@ -113,6 +113,8 @@ function midpointDistance(groups: TieGroups, m: number, mu: number, sigma: numbe
  * accurate to ~1e-15 relative moves a value by far less), so pruning never drops the maximum.
  */
 const PRUNE_SLACK = 1e-12;
+/** How many recent maximisers seed a search (the maximum often alternates between a few places, e.g. the largest F_m - Phi and the largest Phi - F_m). */
+const SEEDS = 4;
 
 /**
  * Phi at the tie groups, memoised for one distance evaluation: an entry is valid when its stamp is
@@ -133,8 +135,8 @@ const stackBound = new Float64Array(64);
  * the tie groups: for groups lo..hi (ascending values, so ascending Phi and F_m), every term of
  * the distance is at most max(F_m(after hi) - Phi(x_lo), Phi(x_hi) - F_m(before lo)) (for one
  * group, this bound IS its term); a range whose bound cannot beat the best term found so far
- * (minus PRUNE_SLACK) is skipped, others are split. The search starts from the group that gave the
- * maximum at the previous call (the minimiser moves little between calls). The maximum is a
+ * (minus PRUNE_SLACK) is skipped, others are split. The search starts from the groups that gave the
+ * maximum at the last SEEDS calls (the minimiser moves little between calls). The maximum is a
  * maximum of the same floating-point terms as the plain loop computes, so it is the same number.
  */
 export class KsDistanceSearch {
@@ -143,7 +145,8 @@ export class KsDistanceSearch {
   private call = 0;
   private mu = 0;
   private sigma = 1;
-  private argBest = 0;
+  /** The groups that gave the maximum at the last calls (most recent first, distinct): the seeds. */
+  private readonly recent: number[] = [0];
   /** Phi evaluations made (for tests and profiling). */
   evaluations = 0;
 
@@ -186,10 +189,15 @@ export class KsDistanceSearch {
     this.call = ++stampNow;
     this.mu = mu;
     this.sigma = sigma;
-    let arg = Math.min(this.argBest, count - 1);
+    let arg = 0;
     let best = 0;
-    const seed = this.bound(arg, arg);
-    if (seed > best) best = seed;
+    for (const g of this.recent) {
+      const seed = this.bound(g, g);
+      if (seed > best) {
+        best = seed;
+        arg = g;
+      }
+    }
     let sp = 0;
     if (count > 1 && !(best >= cap)) {
       stackLo[0] = 0;
@@ -223,7 +231,12 @@ export class KsDistanceSearch {
         if (lo < mid) sp = push(sp, lo, mid, left);
       }
     }
-    this.argBest = arg;
+    const at = this.recent.indexOf(arg);
+    if (at !== 0) {
+      if (at > 0) this.recent.splice(at, 1);
+      else if (this.recent.length >= SEEDS) this.recent.pop();
+      this.recent.unshift(arg);
+    }
     return Number.isNaN(best) ? ksDistanceSorted(this.sorted, mu, sigma) : best;
   }
 }

@@ -27,12 +27,25 @@ export function radixSortModule(): SortExports | null {
 
 /** Sorts x ascending in place and returns it (`engine` "builtin" forces Float64Array.prototype.sort). */
 export function sortFloat64(x: Float64Array, engine: "auto" | "builtin" = "auto"): Float64Array {
-  const w = engine === "auto" && x.length >= RADIX_FROM ? radixSortModule() : null;
-  if (!w) return x.sort();
+  const sorted = engine === "auto" ? radixSorted(x) : null;
+  if (!sorted) return x.sort();
+  x.set(sorted);
+  return x;
+}
+
+/** An ascending copy of x (the numbers of Float64Array.from(x), sorted as sortFloat64 sorts them). */
+export function sortedFloat64(x: ArrayLike<number>): Float64Array {
+  return radixSorted(x)?.slice() ?? Float64Array.from(x).sort();
+}
+
+/** x sorted by the radix sort, as a view of the module's scratch (valid until its next use), or null (small x, module not built). */
+function radixSorted(x: ArrayLike<number>): Float64Array | null {
+  const w = x.length >= RADIX_FROM ? radixSortModule() : null;
+  if (!w) return null;
   const n = x.length;
   const base = w.reserve(w.scratchBytes(n));
-  new Float64Array(w.memory.buffer, base, n).set(x);
+  const view = new Float64Array(w.memory.buffer, base, n);
+  view.set(x);
   w.sortF64(base, n);
-  x.set(new Float64Array(w.memory.buffer, base, n));
-  return x;
+  return view;
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import seedrandom from "seedrandom";
-import { radixSortModule, sortFloat64 } from "../../src/stats/sort.js";
+import { radixSortModule, sortedFloat64, sortFloat64 } from "../../src/stats/sort.js";
 
 describe("radix sort of f64 (build/sort.wasm) = Float64Array.prototype.sort", () => {
   it("the module is built (npm test builds it), so the comparisons below exercise it", () => {
@@ -22,10 +22,14 @@ describe("radix sort of f64 (build/sort.wasm) = Float64Array.prototype.sort", ()
         if (n > 10) x.set([Infinity, -Infinity, -0, 0, -0], 3);
         const radix = sortFloat64(Float64Array.from(x));
         const builtin = sortFloat64(Float64Array.from(x), "builtin");
+        // The copying entry point, from a typed array (left unchanged) and from a plain array.
+        const before = Float64Array.from(x);
+        const copies = [sortedFloat64(x), sortedFloat64(Array.from(x))];
         expect(radix.length, name).toBe(n);
         let differ = 0;
-        for (let i = 0; i < n; i++) if (!Object.is(radix[i], builtin[i])) differ++;
+        for (let i = 0; i < n; i++) if (!Object.is(radix[i], builtin[i]) || copies.some((c) => !Object.is(c[i], builtin[i])) || !Object.is(x[i], before[i])) differ++;
         expect(differ, `${name}, n = ${n}`).toBe(0);
+        for (const c of copies) expect(c.length, name).toBe(n);
       }
     }
   });
