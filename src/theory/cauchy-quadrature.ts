@@ -31,9 +31,8 @@
 
 import type { Mat2, Vec2 } from "../suite/schema.js";
 import { driftPolygon } from "./geometry.js";
-import { runningMaxLaw, spitzerMaxMeans, type RunningMaxLaw } from "./running-max.js";
+import { normalCdfFast, runningMaxLaw, spitzerMaxMeans, type RunningMaxLaw } from "./running-max.js";
 import { gaussLegendre, secondsSince } from "./special.js";
-import { normalCdf } from "../stats/normal.js";
 
 export const CAUCHY_SOURCE =
   "Cauchy's formula L = int_0^{2pi} h(theta) d theta with E max_j M_j(theta) by the Lindley recursion [our numerical method, docs/theory.md sec. 5]";
@@ -240,7 +239,7 @@ function dominanceBound(proj: { m: number; s: number }[], b: number, n: number):
       const x = c0 + 0.5 * len * gl.x[i];
       let tail = 0;
       for (let a = 0; a < proj.length && tail < 1; a++) if (a !== b) tail += maxTail(proj[a].m, proj[a].s, n, x);
-      acc += gl.w[i] * normalCdf((x - cb) / sb) * Math.min(1, tail);
+      acc += gl.w[i] * normalCdfFast((x - cb) / sb) * Math.min(1, tail);
     }
     total += (acc * len) / 2;
   }

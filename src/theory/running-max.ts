@@ -64,15 +64,32 @@ export function runningMaxLaw(r: number, ns: number[], opts: GridOptions = {}): 
     }
     return lo;
   };
+  // Past xi = 37 c the nodes are uniform (z = xi, w = h to rounding): there the kernel is one row,
+  // kern[t] = h phi((oMax - t) h - r) for b = a - oMax + t (a Toeplitz band), shared by the rows
+  // toeplitz[0] <= a < toeplitz[1] whose whole band is uniform and ends before the grid does
+  // (the entries differ from w_b phi(z_a - z_b - r) by the rounding of z only).
+  const oMin = Math.ceil((r - TAIL) / h), oMax = Math.floor((r + TAIL) / h);
+  const kern = new Float64Array(oMax - oMin + 1);
+  for (let t = 0; t < kern.length; t++) {
+    const d = (oMax - t) * h - r;
+    kern[t] = h * INV_SQRT_2PI * Math.exp(-0.5 * d * d);
+  }
+  const uniform = Math.max(0, Math.ceil((37 * c - xi0) / h));
+  const toeplitz: [number, number, number] = [uniform + oMax, Math.max(uniform + oMax, N - 1 + oMin), oMax];
   // Band of node a: b with |z_a - z_b - r| <= TAIL, stored row by row.
   const bLo = new Int32Array(N), bHi = new Int32Array(N), off = new Int32Array(N + 1);
   for (let a = 0; a < N; a++) {
-    bLo[a] = firstAtLeast(z[a] - r - TAIL);
-    bHi[a] = Math.min(N, firstAtLeast(z[a] - r + TAIL));
+    const shared = a >= toeplitz[0] && a < toeplitz[1];
+    bLo[a] = shared ? a - oMax : firstAtLeast(z[a] - r - TAIL);
+    bHi[a] = shared ? a - oMin + 1 : Math.min(N, firstAtLeast(z[a] - r + TAIL));
     off[a + 1] = off[a] + Math.max(0, bHi[a] - bLo[a]);
   }
   const K = new Float64Array(off[N]);
   for (let a = 0; a < N; a++) {
+    if (a >= toeplitz[0] && a < toeplitz[1]) {
+      K.set(kern, off[a]);
+      continue;
+    }
     for (let b = bLo[a], p = off[a]; b < bHi[a]; b++, p++) {
       const d = z[a] - z[b] - r;
       K[p] = w[b] * INV_SQRT_2PI * Math.exp(-0.5 * d * d);
@@ -81,8 +98,8 @@ export function runningMaxLaw(r: number, ns: number[], opts: GridOptions = {}): 
   // Mass of the kernel on the (virtual) nodes past the grid end, where u = 1.
   const zEnd = z[N - 1] + h / 2;
   const beyond = new Float64Array(N);
-  for (let a = 0; a < N; a++) beyond[a] = normalCdf(z[a] - r - zEnd);
-  const band: Band = { N, r, z, K, off, bLo, bHi, beyond };
+  for (let a = 0; a < N; a++) beyond[a] = normalCdfFast(z[a] - r - zEnd);
+  const band: Band = { N, r, z, K, off, bLo, bHi, beyond, kern, toeplitz };
   const wasm = opts.engine === "js" ? null : lindleyModule();
   const saved = wasm ? stepsWasm(wasm, band, ns) : stepsJs(band, ns, firstAtLeast);
   // saved[j] holds u_{ns[j]-1}; one more kernel application gives u_{ns[j]} anywhere.
@@ -116,6 +133,9 @@ interface Band {
   bLo: Int32Array;
   bHi: Int32Array;
   beyond: Float64Array;
+  /** The shared row of the Toeplitz rows toeplitz[0] <= a < toeplitz[1]: kern[t] multiplies node a - toeplitz[2] + t. */
+  kern: Float64Array;
+  toeplitz: [number, number, number];
 }
 type Saved = { u: Float64Array; lo: number; hi: number }[];
 
@@ -165,21 +185,22 @@ function stepsJs({ N, r, z, K, off, bLo, bHi, beyond }: Band, ns: number[], firs
 }
 
 /** The same recursion in build/lindley.wasm (assembly/lindley.ts: SIMD, ~3x faster). */
-function stepsWasm(w: LindleyExports, { N, r, z, K, off, bLo, bHi, beyond }: Band, ns: number[]): Saved {
+function stepsWasm(w: LindleyExports, { N, r, z, K, off, bLo, bHi, beyond, kern, toeplitz }: Band, ns: number[]): Saved {
   const count = ns.length;
-  const f64 = [N, N, N, N, K.length, count * N], i32 = [N + 1, N, N, count, 2 * count];
+  const f64 = [N, N, N, N, K.length, count * N, kern.length], i32 = [N + 1, N, N, count, 2 * count];
   const bytes = 8 * f64.reduce((x, y) => x + y, 0) + 4 * i32.reduce((x, y) => x + y, 0) + 64;
   const base = w.reserve(bytes);
   const buf = w.memory.buffer;
   let at = base;
   const f = (len: number) => { const v = new Float64Array(buf, at, len); at += 8 * len; return v; };
   const i = (len: number) => { const v = new Int32Array(buf, at, len); at += 4 * len; return v; };
-  const [zW, beyondW, curW, nxtW, KW, savedW] = f64.map(f);
+  const [zW, beyondW, curW, nxtW, KW, savedW, kernW] = f64.map(f);
   const [offW, bLoW, bHiW, nsW, loHiW] = i32.map(i);
-  zW.set(z); beyondW.set(beyond); KW.set(K); offW.set(off); bLoW.set(bLo); bHiW.set(bHi); nsW.set(ns);
+  zW.set(z); beyondW.set(beyond); kernW.set(kern); KW.set(K); offW.set(off); bLoW.set(bLo); bHiW.set(bHi); nsW.set(ns);
   curW.fill(1); nxtW.fill(1);
   w.lindleySteps(N, r, TAIL, zW.byteOffset, KW.byteOffset, offW.byteOffset, bLoW.byteOffset, bHiW.byteOffset, beyondW.byteOffset,
-    curW.byteOffset, nxtW.byteOffset, nsW.byteOffset, count, savedW.byteOffset, loHiW.byteOffset);
+    curW.byteOffset, nxtW.byteOffset, nsW.byteOffset, count, savedW.byteOffset, loHiW.byteOffset,
+    kernW.byteOffset, kern.length, ...toeplitz);
   return ns.map((_, j) => ({ u: savedW.slice(j * N, (j + 1) * N), lo: loHiW[2 * j], hi: loHiW[2 * j + 1] }));
 }
 
@@ -187,7 +208,8 @@ interface LindleyExports {
   memory: WebAssembly.Memory;
   reserve(bytes: number): number;
   lindleySteps(N: number, r: number, tail: number, z: number, K: number, off: number, bLo: number, bHi: number, beyond: number,
-    cur: number, nxt: number, ns: number, count: number, saved: number, savedLoHi: number): void;
+    cur: number, nxt: number, ns: number, count: number, saved: number, savedLoHi: number,
+    kern: number, kLen: number, tStart: number, tEnd: number, shift: number): void;
 }
 
 /** build/lindley.wasm (two levels below the project root from src/theory and dist/theory), or null when not built. */
@@ -196,6 +218,17 @@ let lindley: LindleyExports | null | undefined;
 export function lindleyModule(): LindleyExports | null {
   if (lindley === undefined) lindley = loadHelperModule<LindleyExports>(LINDLEY_URL);
   return lindley;
+}
+
+/** normalCdf(z) without the call where it is exactly 1 (z >= 8.3) or 0 (z <= -38.5) in double precision (same bits; a test checks). */
+export function normalCdfFast(z: number): number {
+  return z >= 8.3 ? 1 : z <= -38.5 ? 0 : normalCdf(z);
+}
+
+/** positivePartMean(mu, sigma) for sigma > 0 with normalCdfFast (same bits). */
+function positivePart(mu: number, sigma: number): number {
+  const z = mu / sigma;
+  return sigma * INV_SQRT_2PI * Math.exp(-0.5 * z * z) + mu * normalCdfFast(z);
 }
 
 /** Exact E M_n for steps N(r, 1) (Spitzer): sum_{k<=n} E[S_k^+]/k, S_k ~ N(k r, k). */
@@ -210,7 +243,7 @@ export function spitzerMaxMeans(r: number, ns: number[]): number[] {
   const out: number[] = [];
   let s = 0, k = 0;
   for (const n of ns) {
-    for (k++; k <= n; k++) s += positivePartMean(k * r, Math.sqrt(k)) / k;
+    for (k++; k <= n; k++) s += positivePart(k * r, Math.sqrt(k)) / k;
     k--;
     out.push(s);
   }

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { cauchyMeanPerimeter, mirrorLine } from "../../src/theory/cauchy-quadrature.js";
-import { lindleyModule, runningMaxLaw, spitzerMaxMean, spitzerMaxMeans } from "../../src/theory/running-max.js";
+import { lindleyModule, normalCdfFast, runningMaxLaw, spitzerMaxMean, spitzerMaxMeans } from "../../src/theory/running-max.js";
+import { normalCdf } from "../../src/stats/normal.js";
 import { spitzerWidomMeans } from "../../src/theory/spitzer-widom.js";
 import type { Mat2, Vec2 } from "../../src/suite/schema.js";
 import { hullOf, meanSE, normalSource } from "./theory-helpers.js";
@@ -42,9 +43,15 @@ describe("the recursion in build/lindley.wasm (SIMD) against its TypeScript twin
     }
   });
 
-  it("spitzerMaxMeans gives spitzerMaxMean at every n in one pass", () => {
-    const ns = [1, 2, 9, 100];
-    spitzerMaxMeans(0.3, ns).forEach((v, i) => expect(v).toBeCloseTo(spitzerMaxMean(0.3, ns[i]), 12));
+  it("spitzerMaxMeans gives spitzerMaxMean at every n in one pass (same bits: the skipped normal cdf calls are exactly 0 or 1)", () => {
+    const ns = [1, 2, 9, 100, 1000];
+    for (const r of [-1.5, -0.3, 0, 0.3, 2]) spitzerMaxMeans(r, ns).forEach((v, i) => expect(v).toBe(spitzerMaxMean(r, ns[i])));
+  });
+
+  it("normalCdfFast is normalCdf bit for bit (exactly 1 from 8.3 up, exactly 0 from -38.5 down)", () => {
+    for (let z = -80; z <= 80; z += 0.0037) expect(normalCdfFast(z)).toBe(normalCdf(z));
+    for (const z of [8.3, 8.29, -38.5, -38.49, Infinity, -Infinity]) expect(normalCdfFast(z)).toBe(normalCdf(z));
+    expect(normalCdfFast(NaN)).toBeNaN();
   });
 });
 
