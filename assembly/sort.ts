@@ -8,6 +8,8 @@
 export { reserve } from "./scratch";
 
 const SIGN: u64 = 0x8000000000000000;
+/** Bits of +Infinity: a NaN's bits, sign cleared, are above it. */
+const EXPONENT: u64 = 0x7ff0000000000000;
 const BITS: u64 = 11;
 const RADIX: i32 = 1 << 11;
 const MASK: u64 = 0x7ff;
@@ -19,15 +21,21 @@ export function scratchBytes(n: i32): i32 {
   return n * 16 + DIGITS * RADIX * 4;
 }
 
-/** Sorts the n f64 values at p (p is reserve's region; it holds scratchBytes(n) bytes); n >= 1. */
-export function sortF64(p: usize, n: i32): void {
+/**
+ * Sorts the n f64 values at p (p is reserve's region; it holds scratchBytes(n) bytes); n >= 1.
+ * Returns the index of the first NaN in the input order, -1 without NaN (the callers reject NaN,
+ * and this saves them a pass).
+ */
+export function sortF64(p: usize, n: i32): i32 {
   const a = p;
   const b = p + (<usize>n << 3);
   const counts = b + (<usize>n << 3);
   memory.fill(counts, 0, DIGITS * RADIX * 4);
+  let nan: i32 = -1;
   for (let i: i32 = 0; i < n; i++) {
     const at = a + (<usize>i << 3);
     let k = load<u64>(at);
+    if (nan < 0 && (k & ~SIGN) > EXPONENT) nan = i;
     k = (k & SIGN) != 0 ? ~k : k | SIGN;
     store<u64>(at, k);
     for (let d: i32 = 0; d < DIGITS; d++) {
@@ -65,4 +73,5 @@ export function sortF64(p: usize, n: i32): void {
     const k = load<u64>(at);
     store<u64>(a + (<usize>i << 3), (k & SIGN) != 0 ? k ^ SIGN : ~k);
   }
+  return nan;
 }

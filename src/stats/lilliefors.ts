@@ -41,8 +41,9 @@ export function meanSd(x: ArrayLike<number>): { mean: number; sd: number } {
 
 /** Returns an ascending copy (NaNs rejected with a field-named error). */
 export function sortedCopy(x: ArrayLike<number>, field = "sample"): Float64Array {
-  for (let i = 0; i < x.length; i++) if (Number.isNaN(x[i])) throw new Error(`${field}[${i}]: NaN`);
-  return sortedFloat64(x);
+  const { sorted, firstNaN } = sortedFloat64(x);
+  if (firstNaN >= 0) throw new Error(`${field}[${firstNaN}]: NaN`);
+  return sorted;
 }
 
 /** sup_x |F_m(x) - Phi((x - mu)/sigma)| for an ascending sample (exact with ties). */

@@ -142,9 +142,6 @@ const stackBound = new Float64Array(64);
 export class KsDistanceSearch {
   private readonly groups: TieGroups;
   private readonly m: number;
-  private call = 0;
-  private mu = 0;
-  private sigma = 1;
   /** The groups that gave the maximum at the last calls (most recent first, distinct): the seeds. */
   private readonly recent: number[] = [0];
   /** Phi evaluations made (for tests and profiling). */
@@ -155,20 +152,6 @@ export class KsDistanceSearch {
     this.m = sorted.length;
   }
 
-  private cdf(g: number): number {
-    if (stampMemo[g] === this.call) return phiMemo[g];
-    this.evaluations++;
-    const p = normalCdf((this.groups.value[g] - this.mu) / this.sigma);
-    phiMemo[g] = p;
-    stampMemo[g] = this.call;
-    return p;
-  }
-
-  /** The larger of the two terms' bounds over groups lo..hi; for lo = hi, the group's term exactly as ksDistanceSorted computes it. */
-  private bound(lo: number, hi: number): number {
-    return Math.max((this.groups.end[hi] + 1) / this.m - this.cdf(lo), this.cdf(hi) - this.groups.start[lo] / this.m);
-  }
-
   /**
    * sup_x |F_m(x) - Phi((x - mu)/sigma)|, equal to ksDistanceSorted(sorted, mu, sigma). With a
    * `cap`, the search may stop at the first term >= cap and return it: the result is then the
@@ -177,7 +160,9 @@ export class KsDistanceSearch {
   distance(mu: number, sigma: number, cap = Infinity): number {
     // Guard: a NaN anywhere (it cannot arise from finite inputs) would make the pruning meaningless.
     if (!Number.isFinite(mu) || !Number.isFinite(sigma)) return ksDistanceSorted(this.sorted, mu, sigma);
-    const count = this.groups.value.length;
+    const { start, end, value } = this.groups;
+    const m = this.m;
+    const count = value.length;
     if (stampMemo.length < count) {
       phiMemo = new Float64Array(count);
       stampMemo = new Int32Array(count);
@@ -186,13 +171,24 @@ export class KsDistanceSearch {
       stampMemo.fill(0);
       stampNow = 0;
     }
-    this.call = ++stampNow;
-    this.mu = mu;
-    this.sigma = sigma;
+    const call = ++stampNow;
+    const phi = phiMemo;
+    const stamp = stampMemo;
+    let evaluations = 0;
+    const cdf = (g: number): number => {
+      if (stamp[g] === call) return phi[g];
+      evaluations++;
+      const p = normalCdf((value[g] - mu) / sigma);
+      phi[g] = p;
+      stamp[g] = call;
+      return p;
+    };
+    // The larger of the two terms' bounds over groups lo..hi; for lo = hi, the group's term exactly as ksDistanceSorted computes it.
+    const bound = (lo: number, hi: number): number => Math.max((end[hi] + 1) / m - cdf(lo), cdf(hi) - start[lo] / m);
     let arg = 0;
     let best = 0;
     for (const g of this.recent) {
-      const seed = this.bound(g, g);
+      const seed = bound(g, g);
       if (seed > best) {
         best = seed;
         arg = g;
@@ -202,7 +198,7 @@ export class KsDistanceSearch {
     if (count > 1 && !(best >= cap)) {
       stackLo[0] = 0;
       stackHi[0] = count - 1;
-      stackBound[0] = this.bound(0, count - 1);
+      stackBound[0] = bound(0, count - 1);
       sp = 1;
     }
     while (sp > 0) {
@@ -211,8 +207,8 @@ export class KsDistanceSearch {
       const hi = stackHi[sp];
       if (stackBound[sp] + PRUNE_SLACK <= best) continue;
       const mid = (lo + hi) >> 1;
-      const left = this.bound(lo, mid);
-      const right = this.bound(mid + 1, hi);
+      const left = bound(lo, mid);
+      const right = bound(mid + 1, hi);
       if (lo === mid && left > best) {
         best = left;
         arg = lo;
@@ -231,6 +227,7 @@ export class KsDistanceSearch {
         if (lo < mid) sp = push(sp, lo, mid, left);
       }
     }
+    this.evaluations += evaluations;
     const at = this.recent.indexOf(arg);
     if (at !== 0) {
       if (at > 0) this.recent.splice(at, 1);

@@ -11,7 +11,7 @@ interface SortExports {
   memory: WebAssembly.Memory;
   reserve(bytes: number): number;
   scratchBytes(n: number): number;
-  sortF64(p: number, n: number): void;
+  sortF64(p: number, n: number): number;
 }
 
 /** Below this size the built-in sort is as fast (and needs no copy). */
@@ -27,25 +27,32 @@ export function radixSortModule(): SortExports | null {
 
 /** Sorts x ascending in place and returns it (`engine` "builtin" forces Float64Array.prototype.sort). */
 export function sortFloat64(x: Float64Array, engine: "auto" | "builtin" = "auto"): Float64Array {
-  const sorted = engine === "auto" ? radixSorted(x) : null;
-  if (!sorted) return x.sort();
-  x.set(sorted);
+  const radixed = engine === "auto" ? radixSorted(x) : null;
+  if (!radixed) return x.sort();
+  x.set(radixed.sorted);
   return x;
 }
 
-/** An ascending copy of x (the numbers of Float64Array.from(x), sorted as sortFloat64 sorts them). */
-export function sortedFloat64(x: ArrayLike<number>): Float64Array {
-  return radixSorted(x)?.slice() ?? Float64Array.from(x).sort();
+/**
+ * An ascending copy of x (the numbers of Float64Array.from(x), sorted as sortFloat64 sorts them),
+ * and the index of x's first NaN (-1 when none; the copy then holds NaN where the sort put it).
+ */
+export function sortedFloat64(x: ArrayLike<number>): { sorted: Float64Array; firstNaN: number } {
+  const radixed = radixSorted(x);
+  if (radixed) return { sorted: radixed.sorted.slice(), firstNaN: radixed.firstNaN };
+  let firstNaN = -1;
+  for (let i = 0; i < x.length && firstNaN < 0; i++) if (Number.isNaN(x[i])) firstNaN = i;
+  return { sorted: Float64Array.from(x).sort(), firstNaN };
 }
 
 /** x sorted by the radix sort, as a view of the module's scratch (valid until its next use), or null (small x, module not built). */
-function radixSorted(x: ArrayLike<number>): Float64Array | null {
+function radixSorted(x: ArrayLike<number>): { sorted: Float64Array; firstNaN: number } | null {
   const w = x.length >= RADIX_FROM ? radixSortModule() : null;
   if (!w) return null;
   const n = x.length;
   const base = w.reserve(w.scratchBytes(n));
   const view = new Float64Array(w.memory.buffer, base, n);
   view.set(x);
-  w.sortF64(base, n);
-  return view;
+  const firstNaN = w.sortF64(base, n);
+  return { sorted: view, firstNaN };
 }

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import seedrandom from "seedrandom";
 import { radixSortModule, sortedFloat64, sortFloat64 } from "../../src/stats/sort.js";
+import { sortedCopy } from "../../src/stats/lilliefors.js";
 
 describe("radix sort of f64 (build/sort.wasm) = Float64Array.prototype.sort", () => {
   it("the module is built (npm test builds it), so the comparisons below exercise it", () => {
@@ -24,13 +25,30 @@ describe("radix sort of f64 (build/sort.wasm) = Float64Array.prototype.sort", ()
         const builtin = sortFloat64(Float64Array.from(x), "builtin");
         // The copying entry point, from a typed array (left unchanged) and from a plain array.
         const before = Float64Array.from(x);
-        const copies = [sortedFloat64(x), sortedFloat64(Array.from(x))];
+        const copies = [sortedFloat64(x), sortedFloat64(Array.from(x))].map((c) => {
+          expect(c.firstNaN).toBe(-1);
+          return c.sorted;
+        });
         expect(radix.length, name).toBe(n);
         let differ = 0;
         for (let i = 0; i < n; i++) if (!Object.is(radix[i], builtin[i]) || copies.some((c) => !Object.is(c[i], builtin[i])) || !Object.is(x[i], before[i])) differ++;
         expect(differ, `${name}, n = ${n}`).toBe(0);
         for (const c of copies) expect(c.length, name).toBe(n);
       }
+    }
+  });
+
+  it("reports the first NaN of the input order (the radix sort and the small-sample path)", () => {
+    const rng = seedrandom("nan");
+    for (const n of [10, 255, 256, 5000]) {
+      const x = Float64Array.from({ length: n }, () => rng() - 0.5);
+      expect(sortedFloat64(x).firstNaN).toBe(-1);
+      const first = Math.floor(rng() * n);
+      x[first] = NaN;
+      if (first + 3 < n) x[first + 3] = -NaN;
+      expect(sortedFloat64(x).firstNaN, `n = ${n}`).toBe(first);
+      expect(sortedFloat64(Array.from(x)).firstNaN, `n = ${n}`).toBe(first);
+      expect(() => sortedCopy(x, "kept")).toThrow(`kept[${first}]: NaN`);
     }
   });
 });
