@@ -314,7 +314,10 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
     const verdictCache: VerdictCache = {};
     try {
       prediction = earlyPrediction ? await earlyPrediction.resolve(sim) : undefined;
-      if (prediction) prepareVerdictCache(sim, prediction, verdictCache);
+      if (prediction) {
+        verdictCache.estimates = meanEstimates(sim); // computed once per result (the predictions' targets read them)
+        prepareVerdictCache(sim, prediction, verdictCache);
+      }
       verdictCache.evidence = await lawThreads?.collect();
     } finally {
       lawThreads?.dispose();

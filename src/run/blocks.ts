@@ -239,48 +239,39 @@ export function mergeKept(sets: KeptCandidates[], dim: number, keep: number = MA
 }
 
 /**
- * The sets in ascending path order when each set's path indexes ascend and the sets' ranges do not
- * overlap (a run's blocks, in any arrival order): then concatenating them in that order IS the
- * ascending path order, with no per-row sort; null otherwise.
+ * Row order by path index when the path indexes are distinct and span at most 4x as many integers as
+ * there are rows (a run's candidates: every path at most once, all of them when all are kept): a
+ * slot per integer of the span, filled and read in order (O(rows), no sort). Null when two rows share
+ * a path index or the span is wider (then integerOrder, which also keeps ties in input order).
  */
-function runOrder(sets: KeptCandidates[]): KeptCandidates[] | null {
-  const nonEmpty = sets.filter((c) => c.pathIndex.length > 0);
-  for (const c of nonEmpty) {
-    const p = c.pathIndex;
-    for (let r = 1; r < p.length; r++) if (!(p[r] > p[r - 1])) return null;
+function slotOrder(pathIndex: number[]): Int32Array | null {
+  const count = pathIndex.length;
+  let min = Infinity;
+  let max = -Infinity;
+  for (let i = 0; i < count; i++) {
+    const p = pathIndex[i];
+    if (!Number.isInteger(p)) return null;
+    if (p < min) min = p;
+    if (p > max) max = p;
   }
-  const ordered = [...nonEmpty].sort((a, b) => a.pathIndex[0] - b.pathIndex[0]);
-  for (let i = 1; i < ordered.length; i++) {
-    const prev = ordered[i - 1].pathIndex;
-    if (!(ordered[i].pathIndex[0] > prev[prev.length - 1])) return null;
+  if (count === 0 || max - min + 1 > 4 * count) return null;
+  const slot = new Int32Array(max - min + 1).fill(-1);
+  for (let i = 0; i < count; i++) {
+    const at = pathIndex[i] - min;
+    if (slot[at] !== -1) return null;
+    slot[at] = i;
   }
-  return ordered;
+  const order = new Int32Array(count);
+  let k = 0;
+  for (let s = 0; s < slot.length; s++) if (slot[s] !== -1) order[k++] = slot[s];
+  return order;
 }
 
 /** The kept sample as columns, in ascending path order (of one candidate set, or of all of several sets). */
 export function keptToSample(k: KeptCandidates | KeptCandidates[], dim: number): KeptSample {
   const sets = Array.isArray(k) ? k : [k];
-  const runs = runOrder(sets);
-  if (runs) {
-    const total = runs.reduce((t, c) => t + c.pathIndex.length, 0);
-    const values = Array.from({ length: dim }, () => new Float64Array(total));
-    const pathIndex = new Array<number>(total);
-    let at = 0;
-    for (const c of runs) {
-      const v = c.values;
-      const rows = c.pathIndex.length;
-      for (let r = 0; r < rows; r++) pathIndex[at + r] = c.pathIndex[r];
-      // Column by column: each column's writes are sequential.
-      for (let j = 0; j < dim; j++) {
-        const col = values[j];
-        for (let r = 0, from = j; r < rows; r++, from += dim) col[at + r] = v[from];
-      }
-      at += rows;
-    }
-    return { pathIndex, values };
-  }
-  const pathIndex = sets.flatMap((c) => c.pathIndex);
-  const order = integerOrder(pathIndex);
+  const pathIndex = sets.length === 1 ? sets[0].pathIndex : sets.flatMap((c) => c.pathIndex);
+  const order = slotOrder(pathIndex) ?? integerOrder(pathIndex);
   const { setOf, rowOf } = rowHomes(sets);
   const values = Array.from({ length: dim }, () => new Float64Array(order.length));
   for (let i = 0; i < order.length; i++) {
@@ -289,5 +280,7 @@ export function keptToSample(k: KeptCandidates | KeptCandidates[], dim: number):
     const from = rowOf[r] * dim;
     for (let j = 0; j < dim; j++) values[j][i] = v[from + j];
   }
-  return { pathIndex: Array.from(order, (r) => pathIndex[r]), values };
+  const sortedPaths = new Array<number>(order.length);
+  for (let i = 0; i < order.length; i++) sortedPaths[i] = pathIndex[order[i]];
+  return { pathIndex: sortedPaths, values };
 }

@@ -57,7 +57,8 @@ const WORKER_URL = new URL("../../dist/verdict/law-evidence-worker.js", import.m
 
 interface Helper {
   worker: Worker;
-  busy: Measure | null;
+  /** Measures sent and not yet answered, oldest first. */
+  busy: Measure[];
   dead: boolean;
 }
 
@@ -73,17 +74,16 @@ export class LawEvidenceThreads {
     if (this.helpers.length) return;
     const count = Math.max(0, Math.min(availableParallelism() - 1, measures - 1));
     for (let i = 0; i < count; i++) {
-      const helper: Helper = { worker: new Worker(WORKER_URL), busy: null, dead: false };
+      const helper: Helper = { worker: new Worker(WORKER_URL), busy: [], dead: false };
       const lost = () => {
         if (helper.dead) return;
         helper.dead = true;
-        if (helper.busy !== null && !this.results.has(helper.busy)) this.queue.push(helper.busy);
-        helper.busy = null;
+        for (const m of helper.busy.splice(0)) if (!this.results.has(m)) this.queue.push(m);
         this.wake?.();
       };
       helper.worker.on("message", (msg: { measure: Measure; evidence: LawEvidence }) => {
         this.results.set(msg.measure, msg.evidence);
-        helper.busy = null;
+        helper.busy = helper.busy.filter((m) => m !== msg.measure);
         this.feed(helper);
         this.wake?.();
       });
@@ -93,15 +93,23 @@ export class LawEvidenceThreads {
     }
   }
 
+  /**
+   * Keep two measures on the helper: its answer is read only when this thread's event loop turns,
+   * which the synchronous verdict work here can delay by a measure's time or more; with a second
+   * measure queued on the helper it does not sit idle meanwhile.
+   */
   private feed(helper: Helper): void {
-    if (helper.dead || helper.busy !== null || !this.sim) return;
-    const measure = this.queue.shift();
-    if (measure === undefined) return;
-    helper.busy = measure;
-    helper.worker.postMessage(lawEvidenceInput(this.sim, measure));
+    const sim = this.sim;
+    if (!sim) return;
+    while (!helper.dead && helper.busy.length < 2) {
+      const measure = this.queue.shift();
+      if (measure === undefined) return;
+      helper.busy.push(measure);
+      helper.worker.postMessage(lawEvidenceInput(sim, measure));
+    }
   }
 
-  /** Hand the run's measures out: each helper gets one now (the main thread takes the rest in collect). */
+  /** Hand the run's measures out: each helper gets two now (the main thread takes the rest in collect). */
   dispatch(sim: SimulationResult): void {
     this.start(sim.suite.measure.length);
     this.sim = sim;
@@ -122,7 +130,7 @@ export class LawEvidenceThreads {
         this.results.set(measure, lawEvidenceOf(lawEvidenceInput(sim, measure)));
         continue;
       }
-      if (!this.helpers.some((h) => !h.dead && h.busy !== null)) break;
+      if (!this.helpers.some((h) => !h.dead && h.busy.length > 0)) break;
       await new Promise<void>((r) => (this.wake = r));
       this.wake = null;
     }

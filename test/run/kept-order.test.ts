@@ -53,7 +53,7 @@ describe("kept sample order without comparison sorts", () => {
     expect(direct.pathIndex).toEqual(Array.from({ length: 300 }, (_, i) => i));
   });
 
-  it("keptToSample puts rows in ascending path order, whether the sets are disjoint ranges (concatenated) or interleaved (sorted)", () => {
+  it("keptToSample puts rows in ascending path order: dense distinct indexes (slots), sparse or repeated ones (radix sort)", () => {
     const rng = seedrandom("kept-runs");
     const dim = 3;
     // Reference: a comparison sort of row records by path index.
@@ -76,5 +76,11 @@ describe("kept sample order without comparison sorts", () => {
     const got = keptToSample(interleaved, dim);
     expect(got).toEqual(reference(interleaved));
     expect(got.pathIndex).toEqual(Array.from({ length: 80 }, (_, i) => i));
+    // Sparse indexes (span far beyond 4x the rows) and a repeated index (ties keep input order).
+    const sparse: KeptCandidates[] = [[5e9, 3, 7e12], [12, 3, 1e6]].map((pathIndex) => ({ pathIndex, hash: pathIndex.map(() => 0), values: pathIndex.flatMap(() => [rng(), rng(), rng()]) }));
+    expect(keptToSample(sparse, dim)).toEqual(reference(sparse));
+    expect(keptToSample(sparse, dim).pathIndex).toEqual([3, 3, 12, 1e6, 5e9, 7e12]);
+    const repeated: KeptCandidates[] = [[0, 1, 2], [2, 3]].map((pathIndex) => ({ pathIndex, hash: pathIndex.map(() => 0), values: pathIndex.flatMap(() => [rng(), rng(), rng()]) }));
+    expect(keptToSample(repeated, dim)).toEqual(reference(repeated));
   });
 });
