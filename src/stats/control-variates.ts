@@ -38,32 +38,41 @@ export function projectControls(s: CoMomentState, q: number, basis: ControlBasis
   const d = q + p;
   const out = emptyCoMoments(d);
   out.count = s.count;
-  // A = the (q + p) x (q + c) map: identity on the responses, T on the controls.
-  const row = (i: number, k: number): number => (i < q ? (k === i ? 1 : 0) : k < q ? 0 : T[(i - q) * c + (k - q)]);
+  // A = the (q + p) x (q + c) map: identity on the responses, T on the controls. Its non-zero
+  // entries per row, in column order (the sums below skip the zeros and keep that order).
   const D = s.dim;
+  const cols: number[][] = [];
+  const vals: number[][] = [];
+  for (let i = 0; i < d; i++) {
+    const ks: number[] = [];
+    const as: number[] = [];
+    for (let k = 0; k < D; k++) {
+      const a = i < q ? (k === i ? 1 : 0) : k < q ? 0 : T[(i - q) * c + (k - q)];
+      if (a !== 0) {
+        ks.push(k);
+        as.push(a);
+      }
+    }
+    cols.push(ks);
+    vals.push(as);
+  }
   for (let i = 0; i < d; i++) {
     let m = 0;
-    for (let k = 0; k < D; k++) {
-      const a = row(i, k);
-      if (a !== 0) m += a * s.mean[k]; // unused raw controls may be NaN (a law without a mean)
-    }
+    for (let e = 0; e < cols[i].length; e++) m += vals[i][e] * s.mean[cols[i][e]]; // unused raw controls may be NaN (a law without a mean)
     out.mean[i] = m;
   }
   // C' = A C A'
   const AC = new Float64Array(d * D);
   for (let i = 0; i < d; i++)
-    for (let k = 0; k < D; k++) {
-      const a = row(i, k);
-      if (a === 0) continue;
+    for (let e = 0; e < cols[i].length; e++) {
+      const a = vals[i][e];
+      const k = cols[i][e];
       for (let l = 0; l < D; l++) AC[i * D + l] += a * s.c[k * D + l];
     }
   for (let i = 0; i < d; i++)
     for (let j = 0; j < d; j++) {
       let t = 0;
-      for (let l = 0; l < D; l++) {
-        const a = row(j, l);
-        if (a !== 0) t += AC[i * D + l] * a;
-      }
+      for (let e = 0; e < cols[j].length; e++) t += AC[i * D + cols[j][e]] * vals[j][e];
       out.c[i * d + j] = t;
     }
   return out;
@@ -94,7 +103,8 @@ export function controlVariatePoint(s: CoMomentState, q: number, r: number, know
     return { meanPlain, variancePlain, mean: meanPlain, variance: variancePlain, coef: new Float64Array(p), residualVariance: variancePlain };
   }
   // Standardise the controls by their known standard deviations.
-  const sd = Float64Array.from({ length: p }, (_, a) => Math.sqrt(known[a * p + a]));
+  const sd = new Float64Array(p);
+  for (let a = 0; a < p; a++) sd[a] = Math.sqrt(known[a * p + a]);
   const Szz = new Float64Array(p * p);
   const Szm = new Float64Array(p);
   for (let a = 0; a < p; a++) {

@@ -116,6 +116,9 @@ export function controlBasis(walks: readonly StepLaw[], n: number): ControlBasis
 /** A unit direction as "x,y" to 3 decimals (control and coefficient labels). */
 export const formatDirection = (u: [number, number]) => `${+u[0].toFixed(3)},${+u[1].toFixed(3)}`;
 
+/** The order of the four numbers of statistics(). */
+const STATISTICS_ORDER: [Quantity, "plain" | "cv"][] = [["mean", "plain"], ["variance", "plain"], ["mean", "cv"], ["variance", "cv"]];
+
 function statistics(s: CoMomentState, q: number, r: number, known: Float64Array): [number, number, number, number] {
   const e = controlVariatePoint(s, q, r, known);
   return [e.meanPlain, e.variancePlain, e.mean, e.variance];
@@ -152,8 +155,7 @@ export function estimateMeasures(sim: SimulationResult): Map<Measure, MeasureEst
     const fits = perPoint.map(({ basis, full, leaveOut }, g) => {
       const f = controlVariatePoint(full, q, r, basis.known);
       const put = (v: [number, number, number, number], loo: number | null) => {
-        const order: [Quantity, "plain" | "cv"][] = [["mean", "plain"], ["variance", "plain"], ["mean", "cv"], ["variance", "cv"]];
-        order.forEach(([q, kind], i) => {
+        STATISTICS_ORDER.forEach(([q, kind], i) => {
           if (loo === null) replicates[q][kind].full[g] = v[i];
           else replicates[q][kind].leaveOut[loo][g] = v[i];
         });
