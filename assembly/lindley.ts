@@ -97,10 +97,20 @@ export function lindleySteps(
     let newLo = max(lo, aLo);
     while (newLo < newHi && load<f64>(nxt + (<usize>newLo << 3)) < 1e-30) newLo++;
     for (let a = aHi; a < N && a < aHi + 2; a++) store<f64>(nxt + (<usize>a << 3), 1);
+    let fixed = r < 0 && newLo == lo && max(newHi, lo) == hi;
+    for (let a = lo; fixed && a < N; a++) fixed = load<f64>(cur + (<usize>a << 3)) == load<f64>(nxt + (<usize>a << 3));
     const t = cur;
     cur = nxt;
     nxt = t;
     lo = newLo;
     hi = max(newHi, lo);
+    // A fixed point (a negative drift's stationary law, reached to the last bit): every later u is cur.
+    if (fixed) {
+      for (; want < count; want++) {
+        memory.copy(saved + <usize>want * (<usize>N << 3), cur, <usize>N << 3);
+        store<i32>(savedLoHi + (<usize>(2 * want) << 2), lo);
+        store<i32>(savedLoHi + (<usize>(2 * want + 1) << 2), hi);
+      }
+    }
   }
 }

@@ -11,7 +11,8 @@
 // Richardson step is needed. Accuracy is certified per call against Spitzer's exact
 // E M_n = sum_{k<=n} E[S_k^+]/k (Spitzer, "A combinatorial lemma and its application to probability
 // theory", Trans. AMS 82 (1956)), see `spitzerMaxMean`.
-// Cost: O(n^{3/2} / h^2) flops (window of width ~18 sqrt(i) around the drift, band ~17/h nodes).
+// Cost: O(n^{3/2} / h^2) flops (window of width ~18 sqrt(i) around the drift, band ~17/h nodes); with a
+// negative drift the iterates reach the stationary law to the last bit (after ~(8.5/r)^2 steps) and stop there.
 
 import { loadHelperModule } from "../engine/helper-module.js";
 import { INV_SQRT_2PI, positivePartMean } from "./special.js";
@@ -177,11 +178,20 @@ function stepsJs({ N, r, z, K, off, bLo, bHi, beyond }: Band, ns: number[], firs
     let newLo = Math.max(lo, aLo);
     while (newLo < newHi && nxt[newLo] < 1e-30) newLo++;
     for (let a = aHi; a < N && a < aHi + 2; a++) nxt[a] = 1;
+    const fixed = r < 0 && newLo === lo && Math.max(newHi, lo) === hi && sameFrom(cur, nxt, lo, N);
     const t = cur; cur = nxt; nxt = t;
     lo = newLo;
     hi = Math.max(newHi, lo);
+    // A fixed point (a negative drift's stationary law, reached to the last bit): every later u is cur.
+    if (fixed) for (; want < ns.length; want++) saved.push({ u: cur.slice(), lo, hi });
   }
   return saved;
+}
+
+/** x[a] === y[a] for lo <= a < N. */
+function sameFrom(x: Float64Array, y: Float64Array, lo: number, N: number): boolean {
+  for (let a = lo; a < N; a++) if (x[a] !== y[a]) return false;
+  return true;
 }
 
 /** The same recursion in build/lindley.wasm (assembly/lindley.ts: SIMD, ~3x faster). */

@@ -7,10 +7,10 @@ import type { Mat2, Vec2 } from "../../src/suite/schema.js";
 import { hullOf, meanSE, normalSource } from "./theory-helpers.js";
 
 describe("running maximum by the Lindley recursion vs Spitzer's E M_n = sum E[S_k^+]/k (Spitzer, Trans. AMS 82 (1956))", () => {
-  it("matches for drifts -0.3, 0, 0.05, 1 at n = 10, 200", () => {
-    for (const r of [-0.3, 0, 0.05, 1]) {
-      const law = runningMaxLaw(r, [10, 200], { h: 0.75 });
-      for (const [idx, n] of [[0, 10], [1, 200]]) {
+  it("matches for drifts -0.3, 0, 0.05, 1 at n = 10, 200, and -1.2 at n = 10, 1000 (stationary to the last bit from n ~ 100)", () => {
+    for (const [r, nBig] of [[-0.3, 200], [0, 200], [0.05, 200], [1, 200], [-1.2, 1000]]) {
+      const law = runningMaxLaw(r, [10, nBig], { h: 0.75 });
+      for (const [idx, n] of [[0, 10], [1, nBig]]) {
         const [, hi] = law.support(idx);
         // Simpson rule for int_0^hi (1 - F).
         const m = 2 * Math.ceil(hi / 0.02 / 2), H = hi / m;
