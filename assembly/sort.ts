@@ -32,24 +32,36 @@ export function sortF64(p: usize, n: i32): i32 {
   const counts = b + (<usize>n << 3);
   memory.fill(counts, 0, DIGITS * RADIX * 4);
   let nan: i32 = -1;
+  let all: u64 = ~(<u64>0);
+  let some: u64 = 0;
   for (let i: i32 = 0; i < n; i++) {
     const at = a + (<usize>i << 3);
     let k = load<u64>(at);
     if (nan < 0 && (k & ~SIGN) > EXPONENT) nan = i;
     k = (k & SIGN) != 0 ? ~k : k | SIGN;
     store<u64>(at, k);
+    all &= k;
+    some |= k;
+  }
+  // A digit every key shares (e.g. the top bits of values of one sign and scale, the low bits of
+  // integers) is neither counted nor moved: counting it would add one increment of one counter
+  // per value, a chain of dependent stores.
+  const varying = all ^ some;
+  let digits: i32 = 0;
+  for (let d: i32 = 0; d < DIGITS; d++) if (((varying >> (<u64>d * BITS)) & MASK) != 0) digits |= 1 << d;
+  for (let i: i32 = 0; i < n; i++) {
+    const k = load<u64>(a + (<usize>i << 3));
     for (let d: i32 = 0; d < DIGITS; d++) {
+      if ((digits & (1 << d)) == 0) continue;
       const c = counts + (<usize>(d * RADIX) << 2) + (<usize>((k >> (<u64>d * BITS)) & MASK) << 2);
       store<u32>(c, load<u32>(c) + 1);
     }
   }
   let src = a, dst = b;
   for (let d: i32 = 0; d < DIGITS; d++) {
+    if ((digits & (1 << d)) == 0) continue;
     const hist = counts + (<usize>(d * RADIX) << 2);
     const shift = <u64>d * BITS;
-    // A digit every key shares (e.g. the top bits of values of one sign and scale) moves nothing.
-    const first = load<u64>(src);
-    if (load<u32>(hist + (<usize>((first >> shift) & MASK) << 2)) == <u32>n) continue;
     let sum: u32 = 0;
     for (let j: i32 = 0; j < RADIX; j++) {
       const c = hist + (<usize>j << 2);

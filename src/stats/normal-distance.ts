@@ -23,7 +23,7 @@
 // Cost O(m log m + 200 m). Example: 10^5 normal draws give D_min ~ 0.002, bound ~ 0.0073 at a = 0.01.
 
 import { normalCdf } from "./normal.js";
-import { ksDistanceSorted, meanSd, sortedCopy } from "./lilliefors.js";
+import { ksDistanceSorted, meanSd, meanSdAll, sortedCopy } from "./lilliefors.js";
 
 export interface NormalDistance {
   /** Sample size m. */
@@ -317,6 +317,11 @@ export interface SortedStats {
 /** meanSd and tieGroups of an ascending sample. */
 export function sortedStats(s: Float64Array): SortedStats {
   return { ...meanSd(s), groups: tieGroups(s) };
+}
+
+/** sortedStats of each sample (the means and SDs by meanSdAll: the same numbers, less CPU). */
+export function sortedStatsAll(samples: readonly Float64Array[]): SortedStats[] {
+  return meanSdAll(samples).map((moments, g) => ({ ...moments, groups: tieGroups(samples[g]) }));
 }
 
 /**

@@ -12,7 +12,7 @@ import { andersonDarlingNormalSorted, type AndersonDarlingResult } from "../stat
 import { blockJackknife, jackknifeFromReplicates } from "../stats/jackknife.js";
 import { lillieforsPValue, sortedCopy } from "../stats/lilliefors.js";
 import { mergeAll, summarize } from "../stats/moments.js";
-import { KsDistanceSearch, normalDistanceSorted, sortedStats, type NormalDistance } from "../stats/normal-distance.js";
+import { KsDistanceSearch, normalDistanceSorted, sortedStatsAll, type NormalDistance } from "../stats/normal-distance.js";
 import { normalQuantile, normalSf, twoSidedNormalP } from "../stats/normal.js";
 import { linearGls } from "../stats/gls.js";
 import { excessKurtosisZ, skewnessZ } from "../stats/shape.js";
@@ -192,7 +192,7 @@ export function normalityEvidence(n: number[], samples: ArrayLike<number>[], blo
   // Each sample sorted once (the distances and Anderson-Darling read the same ascending copy).
   // Their mean, SD and tie groups computed once too (the same numbers each reader would compute).
   const sorted = samples.map((x) => sortedCopy(x));
-  const stats = sorted.map(sortedStats);
+  const stats = sortedStatsAll(sorted);
   const last = sorted[G - 1];
   const distance = normalDistanceSorted(last, tol, alpha, false, stats[G - 1]);
   const lillieforsD = distance.momentFit;

@@ -1,8 +1,9 @@
 import { describe, expect, it } from "vitest";
 import seedrandom from "seedrandom";
-import { ksDistanceSorted, ksNormalDistance, meanSd, sortedCopy } from "../../src/stats/lilliefors.js";
-import { KsDistanceSearch, normalDistance, normalDistanceSorted, sortedStats, tieGroups } from "../../src/stats/normal-distance.js";
+import { ksDistanceSorted, ksNormalDistance, meanSd, meanSdAll, sortedCopy } from "../../src/stats/lilliefors.js";
+import { KsDistanceSearch, normalDistance, normalDistanceSorted, sortedStats, sortedStatsAll, tieGroups } from "../../src/stats/normal-distance.js";
 import { andersonDarlingNormal, andersonDarlingNormalSorted } from "../../src/stats/anderson-darling.js";
+import { normalCdf } from "../../src/stats/normal.js";
 
 function gaussian(rng: () => number): number {
   const u = 1 - rng();
@@ -67,6 +68,20 @@ describe("pruned KS distance (KsDistanceSearch) = the plain loop, bit for bit", 
     expect(capped).toBeGreaterThan(10);
   });
 
+  it("means and SDs of several samples at once (three chains in one loop) equal meanSd's, bit for bit", () => {
+    const rng = seedrandom("means");
+    // Lengths: a run of equal ones (taken three at a time), then unequal ones and leftovers.
+    for (const lengths of [[5000, 5000, 5000, 5000, 5000, 5000], [5000, 5000, 5000, 5000], [300, 300, 301, 300, 300, 300, 7], [9], []]) {
+      const xs = lengths.map((m, k) => sortedCopy(Array.from({ length: m }, () => 1e3 * k + (k + 1) * gaussian(rng))));
+      const all = meanSdAll(xs);
+      expect(all.length).toBe(xs.length);
+      xs.forEach((x, k) => {
+        expect(Object.is(all[k].mean, meanSd(x).mean) && Object.is(all[k].sd, meanSd(x).sd), `lengths ${lengths}, sample ${k}`).toBe(true);
+        expect(sortedStatsAll(xs)[k]).toEqual(sortedStats(x));
+      });
+    }
+  });
+
   it("tie groups without ties (shared arrays) equal the general construction", () => {
     const rng = seedrandom("groups");
     for (const m of [1, 2, 7, 1000, 3000]) {
@@ -104,6 +119,25 @@ describe("pruned KS distance (KsDistanceSearch) = the plain loop, bit for bit", 
       expect(normalDistance(x, 0.01, 0.01), name).toEqual(fast);
       expect(fast.momentFit, name).toBe(ksNormalDistance(x));
     }
+  });
+
+  it("Anderson-Darling with ties (once per distinct value) equals the per-value loop, bit for bit", () => {
+    const rng = seedrandom("ad-ties");
+    const cases = [...samples().filter((c) => c.x.length >= 8), { name: "two values", x: Array.from({ length: 1001 }, () => (rng() < 0.3 ? -0 : 1)) }, { name: "zeros of both signs", x: Array.from({ length: 500 }, () => [-0, 0, 1, 2][Math.floor(4 * rng())]) }];
+    let tied = 0;
+    for (const { name, x } of cases) {
+      const s = sortedCopy(x);
+      const m = s.length;
+      const { mean, sd } = meanSd(s);
+      // The formula term by term (the code before the per-value evaluation).
+      let sum = 0;
+      for (let i = 0; i < m; i++) sum += (2 * i + 1) * (Math.log(Math.max(normalCdf((s[i] - mean) / sd), 1e-300)) + Math.log(Math.max(normalCdf(-((s[m - 1 - i] - mean) / sd)), 1e-300)));
+      expect(andersonDarlingNormalSorted(s).statistic, name).toBe(-m - sum / m);
+      expect(andersonDarlingNormalSorted(s, sortedStats(s)).statistic, name).toBe(-m - sum / m);
+      if (new Set(s).size * 2 <= m) tied++;
+    }
+    // The per-value path ran (lattice, two values, zeros).
+    expect(tied).toBeGreaterThanOrEqual(3);
   });
 
   it("the sorted-input entry points equal the unsorted ones", () => {
