@@ -93,7 +93,29 @@ export interface ControlVariatePoint {
  * Control-variate estimates of response r (0 <= r < q) from projected co-moments of
  * [q responses, p controls] with known control covariance `known` (p x p).
  */
-export function controlVariatePoint(s: CoMomentState, q: number, r: number, known: Float64Array): ControlVariatePoint {
+/** The controls' block of a state standardised by their known SDs, and its Cholesky factor (null: no spread). The same for every response. */
+export interface ControlFactor {
+  sd: Float64Array;
+  l: Float64Array | null;
+}
+
+/** The control factor of projected co-moments of [q responses, p controls] (pass it to controlVariatePoint for each response). */
+export function controlFactor(s: CoMomentState, q: number, known: Float64Array): ControlFactor {
+  const p = s.dim - q;
+  const d = s.dim;
+  // Standardise the controls by their known standard deviations.
+  const sd = new Float64Array(p);
+  for (let a = 0; a < p; a++) sd[a] = Math.sqrt(known[a * p + a]);
+  const Szz = new Float64Array(p * p);
+  for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) Szz[a * p + b] = s.c[(q + a) * d + (q + b)] / (sd[a] * sd[b]);
+  try {
+    return { sd, l: cholesky(Szz, p, "controls") };
+  } catch {
+    return { sd, l: null };
+  }
+}
+
+export function controlVariatePoint(s: CoMomentState, q: number, r: number, known: Float64Array, factor?: ControlFactor): ControlVariatePoint {
   const N = s.count;
   const p = s.dim - q;
   const d = s.dim;
@@ -102,23 +124,13 @@ export function controlVariatePoint(s: CoMomentState, q: number, r: number, know
   if (p === 0 || N < p + 3) {
     return { meanPlain, variancePlain, mean: meanPlain, variance: variancePlain, coef: new Float64Array(p), residualVariance: variancePlain };
   }
-  // Standardise the controls by their known standard deviations.
-  const sd = new Float64Array(p);
-  for (let a = 0; a < p; a++) sd[a] = Math.sqrt(known[a * p + a]);
-  const Szz = new Float64Array(p * p);
+  const { sd, l } = factor ?? controlFactor(s, q, known);
+  // Controls without spread in this sample (e.g. a lattice walk at n = 1): no regression.
+  if (l === null) return { meanPlain, variancePlain, mean: meanPlain, variance: variancePlain, coef: new Float64Array(p), residualVariance: variancePlain };
   const Szm = new Float64Array(p);
-  for (let a = 0; a < p; a++) {
-    Szm[a] = s.c[(q + a) * d + r] / sd[a];
-    for (let b = 0; b < p; b++) Szz[a * p + b] = s.c[(q + a) * d + (q + b)] / (sd[a] * sd[b]);
-  }
+  for (let a = 0; a < p; a++) Szm[a] = s.c[(q + a) * d + r] / sd[a];
   const Smm = s.c[r * d + r];
-  let beta: Float64Array;
-  try {
-    beta = choleskySolve(cholesky(Szz, p, "controls"), p, Szm);
-  } catch {
-    // Controls without spread in this sample (e.g. a lattice walk at n = 1): no regression.
-    return { meanPlain, variancePlain, mean: meanPlain, variance: variancePlain, coef: new Float64Array(p), residualVariance: variancePlain };
-  }
+  const beta = choleskySolve(l, p, Szm);
   let explained = 0;
   let shift = 0;
   for (let a = 0; a < p; a++) {

@@ -11,7 +11,7 @@
 // replicate; a control-variate estimate replaces the plain one at a grid point only when its
 // jackknife standard error is lower (the choice is shown, per measure, quantity and n).
 
-import { projectControls, controlVariatePoint, leaveOneOutStates, type ControlBasis } from "../stats/control-variates.js";
+import { projectControls, controlFactor, controlVariatePoint, leaveOneOutStates, type ControlBasis, type ControlFactor } from "../stats/control-variates.js";
 import { jackknifeFromReplicates } from "../stats/jackknife.js";
 import { symmetricEigen2 } from "../stats/linalg.js";
 import type { CoMomentState } from "../stats/types.js";
@@ -119,8 +119,8 @@ export const formatDirection = (u: [number, number]) => `${+u[0].toFixed(3)},${+
 /** The order of the four numbers of statistics(). */
 const STATISTICS_ORDER: [Quantity, "plain" | "cv"][] = [["mean", "plain"], ["variance", "plain"], ["mean", "cv"], ["variance", "cv"]];
 
-function statistics(s: CoMomentState, q: number, r: number, known: Float64Array): [number, number, number, number] {
-  const e = controlVariatePoint(s, q, r, known);
+function statistics(s: CoMomentState, q: number, r: number, known: Float64Array, factor: ControlFactor): [number, number, number, number] {
+  const e = controlVariatePoint(s, q, r, known, factor);
   return [e.meanPlain, e.variancePlain, e.mean, e.variance];
 }
 
@@ -143,7 +143,9 @@ export function estimateMeasures(sim: SimulationResult): Map<Measure, MeasureEst
     const bare = sim.blocks[0].controlComoments[g].dim === q;
     const basis = bare ? { p: 0, c: 0, transform: new Float64Array(0), known: new Float64Array(0), labels: [] } : controlBasis(suite.walks, n);
     const projected = sim.blocks.map((b) => projectControls(b.controlComoments[g], q, basis));
-    return { basis, ...leaveOneOutStates(projected) };
+    const { full, leaveOut } = leaveOneOutStates(projected);
+    // The controls' factor of each state: the same for every measure.
+    return { basis, full, leaveOut, fullFactor: controlFactor(full, q, basis.known), leaveOutFactors: leaveOut.map((st) => controlFactor(st, q, basis.known)) };
   });
   for (const measure of suite.measure) {
     const r = layout.index(0, measure);
@@ -152,8 +154,8 @@ export function estimateMeasures(sim: SimulationResult): Map<Measure, MeasureEst
       cv: { full: new Array(G), leaveOut: Array.from({ length: B }, () => new Array(G)) },
     });
     const replicates: Record<Quantity, Replicates> = { mean: rep(), variance: rep() };
-    const fits = perPoint.map(({ basis, full, leaveOut }, g) => {
-      const f = controlVariatePoint(full, q, r, basis.known);
+    const fits = perPoint.map(({ basis, full, leaveOut, fullFactor, leaveOutFactors }, g) => {
+      const f = controlVariatePoint(full, q, r, basis.known, fullFactor);
       const put = (v: [number, number, number, number], loo: number | null) => {
         STATISTICS_ORDER.forEach(([q, kind], i) => {
           if (loo === null) replicates[q][kind].full[g] = v[i];
@@ -161,7 +163,7 @@ export function estimateMeasures(sim: SimulationResult): Map<Measure, MeasureEst
         });
       };
       put([f.meanPlain, f.variancePlain, f.mean, f.variance], null);
-      leaveOut.forEach((st, j) => put(statistics(st, q, r, basis.known), j));
+      leaveOut.forEach((st, j) => put(statistics(st, q, r, basis.known, leaveOutFactors[j]), j));
       return { f, basis };
     });
     const cov = (q: Quantity, kind: "plain" | "cv") => jackknifeFromReplicates(replicates[q][kind].full, replicates[q][kind].leaveOut, sizes).covariance;

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import seedrandom from "seedrandom";
-import { projectControls, type ControlBasis } from "../../src/stats/control-variates.js";
+import { controlFactor, controlVariatePoint, projectControls, type ControlBasis } from "../../src/stats/control-variates.js";
 import { emptyCoMoments, pushVector } from "../../src/stats/moments.js";
 import type { CoMomentState } from "../../src/stats/types.js";
 
@@ -72,6 +72,33 @@ describe("projectControls", () => {
       const p = rows.length;
       const basis: ControlBasis = { p, c, transform: Float64Array.from(rows.flat()), known: new Float64Array(p * p) };
       expect(bits(projectControls(s, q, basis))).toBe(bits(projectPlain(s, q, basis)));
+    }
+  });
+});
+
+describe("controlVariatePoint with a shared control factor", () => {
+  it("gives every response the numbers it gets alone (and no regression when the controls have no spread)", () => {
+    const rng = seedrandom("control-factor");
+    const q = 3;
+    const p = 4;
+    for (const spread of [true, false]) {
+      const s = emptyCoMoments(q + p);
+      const x = new Float64Array(q + p);
+      for (let n = 0; n < 40; n++) {
+        for (let a = 0; a < p; a++) x[q + a] = spread ? rng() - 0.5 : 0.25;
+        for (let r = 0; r < q; r++) x[r] = (r + 1) * x[q + r] + 0.1 * (rng() - 0.5);
+        pushVector(s, x, 0);
+      }
+      const known = new Float64Array(p * p);
+      for (let a = 0; a < p; a++) known[a * p + a] = 1 / 12;
+      const factor = controlFactor(s, q, known);
+      expect(factor.l === null).toBe(!spread);
+      for (let r = 0; r < q; r++) {
+        const shared = controlVariatePoint(s, q, r, known, factor);
+        const alone = controlVariatePoint(s, q, r, known);
+        expect(JSON.stringify({ ...shared, coef: Array.from(shared.coef) })).toBe(JSON.stringify({ ...alone, coef: Array.from(alone.coef) }));
+        if (spread) expect(shared.variance).not.toBe(shared.variancePlain);
+      }
     }
   });
 });
