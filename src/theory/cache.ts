@@ -21,7 +21,7 @@ import type { Prediction, PredictOptions } from "./types.js";
 
 /** Entry format; bump THEORY_REVISION when a numerical method changes its values within a version. */
 export const CACHE_FORMAT = "walkhull-prediction-cache/1";
-export const THEORY_REVISION = "accuracy-targeted-5+gaussian-maximum-2+linearisation";
+export const THEORY_REVISION = "accuracy-targeted-6+gaussian-maximum-2+linearisation";
 
 export interface CacheOptions {
   /** false: compute, neither read nor write (--no-cache). */

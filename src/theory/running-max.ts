@@ -76,6 +76,7 @@ export function runningMaxLaw(r: number, ns: number[], opts: GridOptions = {}): 
     kern[t] = h * INV_SQRT_2PI * Math.exp(-0.5 * d * d);
   }
   const uniform = Math.max(0, Math.ceil((37 * c - xi0) / h));
+  const shrink = Math.exp(-h * h);
   const toeplitz: [number, number, number] = [uniform + oMax, Math.max(uniform + oMax, N - 1 + oMin), oMax];
   // Band of node a: b with |z_a - z_b - r| <= TAIL, stored row by row.
   const bLo = new Int32Array(N), bHi = new Int32Array(N), off = new Int32Array(N + 1);
@@ -104,15 +105,42 @@ export function runningMaxLaw(r: number, ns: number[], opts: GridOptions = {}): 
   const wasm = opts.engine === "js" ? null : lindleyModule();
   const saved = wasm ? stepsWasm(wasm, band, ns) : stepsJs(band, ns, firstAtLeast);
   // saved[j] holds u_{ns[j]-1}; one more kernel application gives u_{ns[j]} anywhere.
+  // firstAtLeast, started from the node index on the uniform nodes (z_b = xi0 + b h there): the same answer.
+  const atLeast = (y: number) => {
+    if (!(uniform < N && y > z[uniform])) return firstAtLeast(y);
+    let b = Math.min(N, Math.ceil((y - xi0) / h));
+    while (b > uniform && z[b - 1] >= y) b--;
+    while (b < N && z[b] < y) b++;
+    return b;
+  };
+  // w_b u_b / sqrt(2 pi) of each saved u, made on first use.
+  const weighted: (Float64Array | undefined)[] = saved.map(() => undefined);
   const cdf = (idx: number, y: number): number => {
     const { u, lo: l, hi: hh } = saved[idx];
     // Past the support the cdf is 1 to 1e-13 (and the grid may end there).
     if (y >= z[Math.min(hh, N - 1)] + r + TAIL) return 1;
-    const b0 = Math.max(l, firstAtLeast(y - r - TAIL)), b1 = Math.min(N, firstAtLeast(y - r + TAIL));
-    let s = 0;
-    for (let b = b0; b < b1; b++) {
+    let wu = weighted[idx];
+    if (!wu) {
+      wu = new Float64Array(N);
+      for (let b = l; b < N; b++) wu[b] = w[b] * u[b] * INV_SQRT_2PI;
+      weighted[idx] = wu;
+    }
+    const b0 = Math.max(l, atLeast(y - r - TAIL)), b1 = Math.min(N, atLeast(y - r + TAIL));
+    let s = 0, b = b0;
+    for (; b < b1 && b < uniform; b++) {
       const d = y - z[b] - r;
-      s += w[b] * u[b] * INV_SQRT_2PI * Math.exp(-0.5 * d * d);
+      s += wu[b] * Math.exp(-0.5 * d * d);
+    }
+    if (b < b1) {
+      // Uniform nodes: d falls by h from node to node, so phi(d - h) = phi(d) exp(d h - h^2 / 2) and the
+      // factor itself shrinks by exp(-h^2): two products per node instead of an exp (rounding ~1e-15 relative).
+      const d = y - z[b] - r;
+      let e = Math.exp(-0.5 * d * d), q = Math.exp(d * h - 0.5 * h * h);
+      for (; b < b1; b++) {
+        s += wu[b] * e;
+        e *= q;
+        q *= shrink;
+      }
     }
     if (b1 === N) s += normalCdf(y - r - zEnd);
     return s > 1 ? 1 : s;
