@@ -17,7 +17,7 @@
 
 import { normalCdf } from "./normal.js";
 import { meanSd, sortedCopy } from "./lilliefors.js";
-import type { TieGroups } from "./normal-distance.js";
+import { runCount, type TieGroups } from "./normal-distance.js";
 
 export interface AndersonDarlingResult {
   statistic: number;
@@ -77,8 +77,7 @@ export function andersonDarlingNormalSorted(s: ArrayLike<number>, moments?: { me
 function tieRuns(s: ArrayLike<number>, groups?: TieGroups): { runs: number; first: Int32Array } | null {
   const m = s.length;
   if (groups) return 2 * groups.start.length > m ? null : { runs: groups.start.length, first: groups.start };
-  let runs = 1;
-  for (let i = 1; i < m; i++) if (s[i] !== s[i - 1]) runs++;
+  const runs = runCount(s);
   if (2 * runs > m) return null;
   const first = new Int32Array(runs);
   let r = 0;

@@ -48,30 +48,32 @@ export function meanSdAll(xs: readonly ArrayLike<number>[]): { mean: number; sd:
   const out: { mean: number; sd: number }[] = [];
   let k = 0;
   while (k < xs.length) {
-    const [a, b, c] = [xs[k], xs[k + 1], xs[k + 2]];
-    if (!c || a.length !== b.length || a.length !== c.length) {
-      out.push(meanSd(a));
-      k++;
-      continue;
-    }
-    const m = a.length;
-    let ma = 0, mb = 0, mc = 0;
-    for (let i = 0; i < m; i++) {
-      const n = i + 1;
-      ma += (a[i] - ma) / n;
-      mb += (b[i] - mb) / n;
-      mc += (c[i] - mc) / n;
-    }
-    let sa = 0, sb = 0, sc = 0;
-    for (let i = 0; i < m; i++) {
-      sa += (a[i] - ma) * (a[i] - ma);
-      sb += (b[i] - mb) * (b[i] - mb);
-      sc += (c[i] - mc) * (c[i] - mc);
-    }
-    out.push({ mean: ma, sd: Math.sqrt(sa / (m - 1)) }, { mean: mb, sd: Math.sqrt(sb / (m - 1)) }, { mean: mc, sd: Math.sqrt(sc / (m - 1)) });
-    k += 3;
+    const m = xs[k].length;
+    if (k + 2 < xs.length && xs[k + 1].length === m && xs[k + 2].length === m) {
+      out.push(...meanSd3(xs[k], xs[k + 1], xs[k + 2]));
+      k += 3;
+    } else out.push(meanSd(xs[k++]));
   }
   return out;
+}
+
+/** meanSd of three samples of one length, in one loop. */
+function meanSd3(a: ArrayLike<number>, b: ArrayLike<number>, c: ArrayLike<number>): { mean: number; sd: number }[] {
+  const m = a.length;
+  let ma = 0, mb = 0, mc = 0;
+  for (let i = 0; i < m; i++) {
+    const n = i + 1;
+    ma += (a[i] - ma) / n;
+    mb += (b[i] - mb) / n;
+    mc += (c[i] - mc) / n;
+  }
+  let sa = 0, sb = 0, sc = 0;
+  for (let i = 0; i < m; i++) {
+    sa += (a[i] - ma) * (a[i] - ma);
+    sb += (b[i] - mb) * (b[i] - mb);
+    sc += (c[i] - mc) * (c[i] - mc);
+  }
+  return [{ mean: ma, sd: Math.sqrt(sa / (m - 1)) }, { mean: mb, sd: Math.sqrt(sb / (m - 1)) }, { mean: mc, sd: Math.sqrt(sc / (m - 1)) }];
 }
 
 /** Returns an ascending copy (NaNs rejected with a field-named error). */

@@ -68,16 +68,34 @@ let identity = new Int32Array(0);
  */
 export function tieGroups(sorted: ArrayLike<number>): TieGroups {
   const m = sorted.length;
+  const count = runCount(sorted);
+  return count === m && sorted instanceof Float64Array ? untiedGroups(sorted) : groupsOf(sorted, count);
+}
+
+// The parts of tieGroups are separate functions so that each long loop is compiled (on-stack, in
+// the first call) with its own feedback: one function holding them all was compiled in its first
+// loop and thrown back to the interpreter at the next, on every call (V8's --trace-deopt).
+
+/** The number of runs of equal values of an ascending sample. */
+export function runCount(sorted: ArrayLike<number>): number {
+  const m = sorted.length;
   let count = m > 0 ? 1 : 0;
   for (let i = 1; i < m; i++) if (sorted[i] !== sorted[i - 1]) count++;
-  if (count === m && sorted instanceof Float64Array) {
-    if (identity.length < m) {
-      identity = new Int32Array(Math.max(m, 2 * identity.length));
-      for (let i = 0; i < identity.length; i++) identity[i] = i;
-    }
-    const ids = identity.subarray(0, m);
-    return { start: ids, end: ids, value: sorted };
+  return count;
+}
+
+function untiedGroups(sorted: Float64Array): TieGroups {
+  const m = sorted.length;
+  if (identity.length < m) {
+    identity = new Int32Array(Math.max(m, 2 * identity.length));
+    for (let i = 0; i < identity.length; i++) identity[i] = i;
   }
+  const ids = identity.subarray(0, m);
+  return { start: ids, end: ids, value: sorted };
+}
+
+function groupsOf(sorted: ArrayLike<number>, count: number): TieGroups {
+  const m = sorted.length;
   const start = new Int32Array(count);
   const end = new Int32Array(count);
   const value = new Float64Array(count);
@@ -175,19 +193,23 @@ export class KsDistanceSearch {
     const phi = phiMemo;
     const stamp = stampMemo;
     let evaluations = 0;
-    const cdf = (g: number): number => {
-      if (stamp[g] === call) return phi[g];
-      evaluations++;
-      const p = normalCdf((value[g] - mu) / sigma);
-      phi[g] = p;
-      stamp[g] = call;
-      return p;
+    // Phi at groups g0 and g1 into the memo. The one place Phi is called: a search compiled with
+    // several inlined copies of it took V8 ~0.1 s of compiler time (--trace-opt), once per thread.
+    const fill = (g0: number, g1: number): void => {
+      for (let g = g0; g <= g1; g += g1 - g0 || 1) {
+        if (stamp[g] === call) continue;
+        evaluations++;
+        phi[g] = normalCdf((value[g] - mu) / sigma);
+        stamp[g] = call;
+      }
     };
-    // The larger of the two terms' bounds over groups lo..hi; for lo = hi, the group's term exactly as ksDistanceSorted computes it.
-    const bound = (lo: number, hi: number): number => Math.max((end[hi] + 1) / m - cdf(lo), cdf(hi) - start[lo] / m);
+    // The larger of the two terms' bounds over groups lo..hi (Phi at both in the memo); for lo = hi, the group's term exactly as ksDistanceSorted computes it.
+    const bound = (lo: number, hi: number): number => Math.max((end[hi] + 1) / m - phi[lo], phi[hi] - start[lo] / m);
+    const recent = this.recent;
     let arg = 0;
     let best = 0;
-    for (const g of this.recent) {
+    for (const g of recent) {
+      fill(g, g);
       const seed = bound(g, g);
       if (seed > best) {
         best = seed;
@@ -196,6 +218,7 @@ export class KsDistanceSearch {
     }
     let sp = 0;
     if (count > 1 && !(best >= cap)) {
+      fill(0, count - 1);
       stackLo[0] = 0;
       stackHi[0] = count - 1;
       stackBound[0] = bound(0, count - 1);
@@ -207,6 +230,7 @@ export class KsDistanceSearch {
       const hi = stackHi[sp];
       if (stackBound[sp] + PRUNE_SLACK <= best) continue;
       const mid = (lo + hi) >> 1;
+      fill(mid, mid + 1);
       const left = bound(lo, mid);
       const right = bound(mid + 1, hi);
       if (lo === mid && left > best) {
@@ -228,14 +252,18 @@ export class KsDistanceSearch {
       }
     }
     this.evaluations += evaluations;
-    const at = this.recent.indexOf(arg);
-    if (at !== 0) {
-      if (at > 0) this.recent.splice(at, 1);
-      else if (this.recent.length >= SEEDS) this.recent.pop();
-      this.recent.unshift(arg);
-    }
+    remember(recent, arg);
     return Number.isNaN(best) ? ksDistanceSorted(this.sorted, mu, sigma) : best;
   }
+}
+
+/** Puts g first in the list of recent maximisers (at most SEEDS, distinct). */
+function remember(recent: number[], g: number): void {
+  const at = recent.indexOf(g);
+  if (at === 0) return;
+  if (at > 0) recent.splice(at, 1);
+  else if (recent.length >= SEEDS) recent.pop();
+  recent.unshift(g);
 }
 
 function push(sp: number, lo: number, hi: number, bound: number): number {
