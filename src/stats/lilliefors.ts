@@ -57,8 +57,19 @@ export function meanSdAll(xs: readonly ArrayLike<number>[]): { mean: number; sd:
   return out;
 }
 
-/** meanSd of three samples of one length, in one loop. */
+/** meanSd of three samples of one length, in one loop per sum. */
 function meanSd3(a: ArrayLike<number>, b: ArrayLike<number>, c: ArrayLike<number>): { mean: number; sd: number }[] {
+  const m = a.length;
+  const means = runningMeans3(a, b, c);
+  const ss = squareSums3(a, b, c, means);
+  return [0, 1, 2].map((k) => ({ mean: means[k], sd: Math.sqrt(ss[k] / (m - 1)) }));
+}
+
+// One loop per function, and nothing after it but the return: V8 compiles a long loop on-stack in
+// its first call, and code after it that had not run yet sent every later call back to the
+// interpreter (--trace-deopt), for the whole of a second loop.
+
+function runningMeans3(a: ArrayLike<number>, b: ArrayLike<number>, c: ArrayLike<number>): [number, number, number] {
   const m = a.length;
   let ma = 0, mb = 0, mc = 0;
   for (let i = 0; i < m; i++) {
@@ -67,13 +78,18 @@ function meanSd3(a: ArrayLike<number>, b: ArrayLike<number>, c: ArrayLike<number
     mb += (b[i] - mb) / n;
     mc += (c[i] - mc) / n;
   }
+  return [ma, mb, mc];
+}
+
+function squareSums3(a: ArrayLike<number>, b: ArrayLike<number>, c: ArrayLike<number>, [ma, mb, mc]: [number, number, number]): [number, number, number] {
+  const m = a.length;
   let sa = 0, sb = 0, sc = 0;
   for (let i = 0; i < m; i++) {
     sa += (a[i] - ma) * (a[i] - ma);
     sb += (b[i] - mb) * (b[i] - mb);
     sc += (c[i] - mc) * (c[i] - mc);
   }
-  return [{ mean: ma, sd: Math.sqrt(sa / (m - 1)) }, { mean: mb, sd: Math.sqrt(sb / (m - 1)) }, { mean: mc, sd: Math.sqrt(sc / (m - 1)) }];
+  return [sa, sb, sc];
 }
 
 /** Returns an ascending copy (NaNs rejected with a field-named error). */

@@ -95,20 +95,24 @@ function untiedGroups(sorted: Float64Array): TieGroups {
 }
 
 function groupsOf(sorted: ArrayLike<number>, count: number): TieGroups {
-  const m = sorted.length;
   const start = new Int32Array(count);
   const end = new Int32Array(count);
   const value = new Float64Array(count);
-  let g = -1;
-  for (let i = 0; i < m; i++) {
-    if (i === 0 || sorted[i] !== sorted[i - 1]) {
-      g++;
-      start[g] = i;
-      value[g] = sorted[i];
-    }
-    end[g] = i;
+  for (let g = 0, i = 0; g < count; g++) {
+    const j = runEnd(sorted, i);
+    start[g] = i;
+    end[g] = j;
+    value[g] = sorted[i];
+    i = j + 1;
   }
   return { start, end, value };
+}
+
+/** The last index of the run of values equal to sorted[i] (one short loop per run, never compiled on-stack). */
+function runEnd(sorted: ArrayLike<number>, i: number): number {
+  let j = i;
+  while (j + 1 < sorted.length && sorted[j + 1] === sorted[i]) j++;
+  return j;
 }
 
 function midpointDistance(groups: TieGroups, m: number, mu: number, sigma: number): number {
