@@ -41,32 +41,52 @@ export function andersonDarlingNormalSorted(s: ArrayLike<number>, moments?: { me
   if (m < 8) throw new Error(`sample: Anderson-Darling needs at least 8 values, got ${m}`);
   const { mean, sd } = moments ?? meanSd(s);
   if (!(sd > 0)) throw new Error("sample: zero variance");
-  const lower = (v: number) => Math.log(Math.max(normalCdf((v - mean) / sd), 1e-300));
-  const upper = (v: number) => Math.log(Math.max(normalCdf(-((v - mean) / sd)), 1e-300));
-  let sum = 0;
   const ties = tieRuns(s, moments?.groups);
-  if (ties === null) {
-    for (let i = 0; i < m; i++) sum += (2 * i + 1) * (lower(s[i]) + upper(s[m - 1 - i]));
-  } else {
-    const { runs, first } = ties;
-    const lo = new Float64Array(runs);
-    const hi = new Float64Array(runs);
-    for (let r = 0; r < runs; r++) {
-      lo[r] = lower(s[first[r]]);
-      hi[r] = upper(s[first[r]]);
-    }
-    // Runs of i ascending and of j = m - 1 - i descending.
-    let ri = 0;
-    let rj = runs - 1;
-    for (let i = 0; i < m; i++) {
-      while (ri + 1 < runs && first[ri + 1] <= i) ri++;
-      while (first[rj] > m - 1 - i) rj--;
-      sum += (2 * i + 1) * (lo[ri] + hi[rj]);
-    }
-  }
+  const sum = ties === null ? plainSum(s, mean, sd) : tiedSum(s, mean, sd, ties.runs, ties.first);
   const a2 = -m - sum / m;
   const modified = a2 * (1 + 0.75 / m + 2.25 / (m * m));
   return { statistic: a2, modified, pValue: andersonDarlingPValue(modified) };
+}
+
+// The sums in functions of their own, with module-level helpers rather than closures made at
+// each call: V8 compiles such a long loop on-stack, and a new closure at the next call sent it
+// back to the interpreter ("wrong call target", --trace-deopt).
+
+/** ln Phi(z) and ln Phi(-z) (both floored at ln 1e-300) of z = (v - mean)/sd. */
+function logLower(v: number, mean: number, sd: number): number {
+  return Math.log(Math.max(normalCdf((v - mean) / sd), 1e-300));
+}
+function logUpper(v: number, mean: number, sd: number): number {
+  return Math.log(Math.max(normalCdf(-((v - mean) / sd)), 1e-300));
+}
+
+/** sum_i (2i + 1) [ln Phi(z_(i)) + ln Phi(-z_(m-1-i))], term by term. */
+function plainSum(s: ArrayLike<number>, mean: number, sd: number): number {
+  const m = s.length;
+  let sum = 0;
+  for (let i = 0; i < m; i++) sum += (2 * i + 1) * (logLower(s[i], mean, sd) + logUpper(s[m - 1 - i], mean, sd));
+  return sum;
+}
+
+/** plainSum with the logs computed once per run of equal values (first: each run's first index). */
+function tiedSum(s: ArrayLike<number>, mean: number, sd: number, runs: number, first: Int32Array): number {
+  const m = s.length;
+  const lo = new Float64Array(runs);
+  const hi = new Float64Array(runs);
+  for (let r = 0; r < runs; r++) {
+    lo[r] = logLower(s[first[r]], mean, sd);
+    hi[r] = logUpper(s[first[r]], mean, sd);
+  }
+  // Runs of i ascending and of j = m - 1 - i descending.
+  let sum = 0;
+  let ri = 0;
+  let rj = runs - 1;
+  for (let i = 0; i < m; i++) {
+    while (ri + 1 < runs && first[ri + 1] <= i) ri++;
+    while (first[rj] > m - 1 - i) rj--;
+    sum += (2 * i + 1) * (lo[ri] + hi[rj]);
+  }
+  return sum;
 }
 
 /**
