@@ -324,13 +324,30 @@ const marginalEfficiency = parallel[1].marginalPathsPerSecond / (2 * parallel[0]
 const freshEfficiency = parallel[0].seconds / (2 * parallel[1].freshThreadsSeconds);
 
 // 2 workers end to end against the native C build on one core, same simulation (paths, walks, n),
-// both by the wall clock.
-const nativeParallel = native
-  ? Number(execFileSync(native, [zigFile, "time", "1", "0", String(PARALLEL_PATHS), "1000", "2", ...walkArgs(2), "1"],
-    { encoding: "utf8", env: { ...process.env, WALKHULL_CPU_CLOCK: "0" } }).trim().split(/\s+/)[0])
-  : null;
-const twoOverNative = nativeParallel === null ? null : parallel[1].seconds / nativeParallel;
-const freshOverNative = nativeParallel === null ? null : parallel[1].freshThreadsSeconds / nativeParallel;
+// both by the wall clock, in alternating rounds (2 workers with threads reused, native, 2 workers with
+// new threads): each round's ratios use that round's native time, and the medians are reported, so
+// that a slow minute of a shared or throttled machine moves one round, not the figure.
+const NATIVE_ROUNDS = smoke ? 1 : 5;
+const nativeRounds: { twoWorkers: number; native: number; twoWorkersNewThreads: number }[] = [];
+if (native) {
+  for (let round = 0; round < NATIVE_ROUNDS; round++) {
+    const twoWorkers = await timedRun(2, PARALLEL_PATHS);
+    const nativeSeconds = Number(execFileSync(native, [zigFile, "time", "1", "0", String(PARALLEL_PATHS), "1000", "2", ...walkArgs(2), "1"],
+      { encoding: "utf8", env: { ...process.env, WALKHULL_CPU_CLOCK: "0" } }).trim().split(/\s+/)[0]);
+    const twoWorkersNewThreads = await timedRun(2, PARALLEL_PATHS, true);
+    nativeRounds.push({ twoWorkers, native: nativeSeconds, twoWorkersNewThreads });
+  }
+}
+const median = (xs: number[]) => {
+  const ys = [...xs].sort((a, b) => a - b);
+  const m = ys.length >> 1;
+  return ys.length % 2 ? ys[m] : (ys[m - 1] + ys[m]) / 2;
+};
+const nativeParallel = native ? median(nativeRounds.map((r) => r.native)) : null;
+const twoOverNativeRounds = nativeRounds.map((r) => r.twoWorkers / r.native);
+const freshOverNativeRounds = nativeRounds.map((r) => r.twoWorkersNewThreads / r.native);
+const twoOverNative = native ? median(twoOverNativeRounds) : null;
+const freshOverNative = native ? median(freshOverNativeRounds) : null;
 
 // ---- Checks' share of a run: `walkhull run` (a fresh process, 2 workers) with checks against
 // --no-checks, with a cold prediction cache (a new XDG_CACHE_HOME each time) and a warm one; rounds
@@ -359,7 +376,6 @@ for (let round = 0; round < CHECK_ROUNDS; round++) {
   kinds.cold.push(cliSeconds([], mkdtempSync(join(tmp, "cache-cold-"))));
   kinds.warm.push(cliSeconds([], warmCache));
 }
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 const checksShare = {
   paths: CHECK_PATHS, rounds: CHECK_ROUNDS, runs: kinds,
   noChecks: median(kinds.noChecks), cold: median(kinds.cold), warm: median(kinds.warm),
@@ -436,7 +452,11 @@ out.push("| workers | seconds | paths/s | marginal paths/s | seconds with new th
 out.push("|---|---|---|---|---|");
 for (const p of parallel) out.push(`| ${p.workers} | ${p.seconds.toFixed(2)} | ${p.pathsPerSecond.toFixed(0)} | ${p.marginalPathsPerSecond.toFixed(0)} | ${p.freshThreadsSeconds.toFixed(2)} |`);
 out.push(`parallel efficiency (paths/s with 2) / (2 x paths/s with 1): ${(100 * efficiency).toFixed(1)}% end to end, ${(100 * marginalEfficiency).toFixed(1)}% marginal, ${(100 * freshEfficiency).toFixed(1)}% end to end with new threads (vs the 1-worker run)`);
-if (nativeParallel !== null) out.push(`native C on one core, same ${PARALLEL_PATHS} paths: ${nativeParallel.toFixed(2)} s wall; 2 workers / native one core = ${f2(twoOverNative)} (${f2(freshOverNative)} with new threads)`);
+if (nativeParallel !== null) {
+  const range = (xs: number[]) => `${f2(Math.min(...xs))}-${f2(Math.max(...xs))}`;
+  out.push(`native C on one core, same ${PARALLEL_PATHS} paths: ${nativeParallel.toFixed(2)} s wall (median of ${nativeRounds.length} rounds, ${range(nativeRounds.map((r) => r.native))} s); ` +
+    `2 workers / native one core = ${f2(twoOverNative)} (rounds ${range(twoOverNativeRounds)}), ${f2(freshOverNative)} with new threads (rounds ${range(freshOverNativeRounds)}); medians of alternating rounds`);
+}
 out.push(`\nChecks' share of a run: walkhull run (new process, 2 workers), two walks, n = 31..1000 (6 points), ${CHECK_PATHS} paths; medians of ${CHECK_ROUNDS} alternating rounds, wall clock`);
 out.push("| run | seconds | / --no-checks |");
 out.push("|---|---|---|");
@@ -458,7 +478,7 @@ if (jsonFile) {
   writeFileSync(jsonFile, JSON.stringify({
     env, nativeCheck, nativeNote: nativeNote || null, numpyNote: numpyNote || null,
     units: "ns per step (a step moves every walk once); draws: ns per draw",
-    pipeline, stages, draws, memory, workerMemory, parallel: { runs: parallel, efficiency, marginalEfficiency, freshEfficiency, nativeOneCoreSeconds: nativeParallel, twoWorkersOverNative: twoOverNative, twoWorkersNewThreadsOverNative: freshOverNative }, checksShare, targets,
+    pipeline, stages, draws, memory, workerMemory, parallel: { runs: parallel, efficiency, marginalEfficiency, freshEfficiency, nativeOneCoreSeconds: nativeParallel, twoWorkersOverNative: twoOverNative, twoWorkersNewThreadsOverNative: freshOverNative, nativeRounds }, checksShare, targets,
   }, null, 2) + "\n");
   console.log(`wrote ${jsonFile}`);
 }

@@ -39,6 +39,10 @@ describe("bench --smoke", () => {
         expect(j.nativeCheck.compared).toBeGreaterThan(0);
         expect(j.nativeCheck.identical).toBe(true);
         expect(j.pipeline.every((row: { native: number | null }) => row.native !== null && row.native > 0)).toBe(true);
+        // The 2-worker / native ratio is the median of per-round ratios (one round in --smoke).
+        const rounds = j.parallel.nativeRounds as { twoWorkers: number; native: number }[];
+        expect(rounds.length).toBeGreaterThanOrEqual(1);
+        expect(j.parallel.twoWorkersOverNative).toBeCloseTo(rounds[0].twoWorkers / rounds[0].native, 12);
       } else {
         expect(j.nativeNote).toMatch(/gcc/);
       }
