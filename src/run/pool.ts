@@ -121,22 +121,23 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions, compiled: WebAssemb
       const worker = taken ?? new Worker(WORKER_URL, { workerData: { suite, kernel: opts.kernel, module } });
       if (taken) worker.postMessage({ setup: { suite, kernel: opts.kernel, module } });
       live.add(worker);
-      // The block sent to this worker and not yet answered (one at a time: sending a second block
+      // The block sent to this worker and not yet answered: one at a time (sending a second block
       // ahead, so that a worker need not wait for this thread's reply, measured no faster in 9
       // alternating runs of 40k paths on 2 workers, and it fixes the last blocks' worker earlier).
-      const inFlight: number[] = [];
+      let current: number | null = null;
 
       const next = () => {
         if (finished) return;
         if (opts.shouldStop?.()) return finish({ stopped: true, blocksRun });
         const b = queue.shift();
         if (b === undefined) {
+          current = null;
           live.delete(worker);
           park(worker);
           if (live.size === 0) finish({ stopped: false, blocksRun });
           return;
         }
-        inFlight.push(b);
+        current = b;
         const fail = failArmed && b === opts.failOnceAtBlock;
         if (fail) failArmed = false;
         worker.postMessage({ block: b, fail });
@@ -146,24 +147,21 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions, compiled: WebAssemb
         if (finished || !live.has(worker)) return;
         live.delete(worker);
         void worker.terminate();
-        if (inFlight.length) {
-          const current = inFlight[0];
+        if (current !== null) {
           const t = (tries.get(current) ?? 0) + 1;
           tries.set(current, t);
           if (t >= MAX_TRIES_PER_BLOCK) return finish(new Error(`block ${current} failed ${t} times; last: ${why}`));
           opts.onWarning?.(`worker failed on block ${current} (${why}); re-running the block on a new worker`);
-          queue.unshift(...inFlight.splice(0));
+          queue.unshift(current);
+          current = null;
         }
         spawn();
       };
 
       worker.on("message", (msg: { ready?: boolean; block: number; out?: BlockOutput; error?: string }) => {
-        // A lost worker's late answers are dropped: its blocks are already queued again.
-        if (finished || !live.has(worker)) return;
+        if (finished) return;
         if (msg.ready) return next();
         if (msg.error !== undefined || !msg.out) return lost(msg.error ?? "no output");
-        const at = inFlight.indexOf(msg.block);
-        if (at >= 0) inFlight.splice(at, 1);
         try {
           opts.collector.add(msg.out);
         } catch (e) {
@@ -173,11 +171,8 @@ function runOnWorkers(suite: LoadedSuite, opts: PoolOptions, compiled: WebAssemb
         opts.onBlock?.(msg.block, msg.out);
         next();
       });
-      // An uncaught error is acted on at 'exit': the answers the worker posted before it failed can
-      // arrive after the 'error' event but not after 'exit' (Node drains the worker's port before it), so the block it failed on is known then.
-      let failure: string | null = null;
-      worker.on("error", (e) => (failure ??= e.message));
-      worker.on("exit", (code) => lost(failure ?? `exited with code ${code}`));
+      worker.on("error", (e) => lost(e.message));
+      worker.on("exit", (code) => lost(`exited with code ${code}`));
     };
 
     const n = Math.min(opts.workers, queue.length);
