@@ -15,7 +15,6 @@ import { evaluateChecks, prepareVerdictCache, renderChecks, type VerdictCache } 
 import { runSuite } from "./run/run.js";
 import type { EarlyWorkers } from "./run/prestart.js";
 import { EarlyPrediction, predictionTargets } from "./verdict/early-prediction.js";
-import { meanEstimates } from "./verdict/accuracy.js";
 import { LawEvidenceThreads } from "./verdict/law-evidence.js";
 import { defaultWorkers } from "./run/pool.js";
 import { CheckpointError, type PartSpec } from "./run/checkpoint.js";
@@ -188,7 +187,7 @@ function finish(sim: SimulationResult, opts: FinishOptions): number {
   const prediction = opts.withChecks
     ? opts.prediction ?? predictCached(suite, { budgetSeconds: opts.predictBudget, meanTargets: predictionTargets(sim) }, { use: opts.cache })
     : undefined;
-  const verdicts = prediction ? evaluateChecks(sim, prediction, { estimates: meanEstimates(sim), ...opts.verdictCache }) : undefined;
+  const verdicts = prediction ? evaluateChecks(sim, prediction, opts.verdictCache) : undefined;
   const report = buildReport(sim, opts.startedAt, { predictions: prediction, verdicts });
   report.exitCode = verdicts && verdicts.failed > 0 ? EXIT_CHECK_FAILED : verdicts && (verdicts.undecidedClaims?.length ?? 0) > 0 ? EXIT_UNDECIDED : EXIT_OK;
   const scaling = (m: string) => prediction?.measures.find((p) => p.measure === m)?.varianceScaling ?? null;
@@ -314,10 +313,7 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
     const verdictCache: VerdictCache = {};
     try {
       prediction = earlyPrediction ? await earlyPrediction.resolve(sim) : undefined;
-      if (prediction) {
-        verdictCache.estimates = meanEstimates(sim); // computed once per result (the predictions' targets read them)
-        prepareVerdictCache(sim, prediction, verdictCache);
-      }
+      if (prediction) prepareVerdictCache(sim, prediction, verdictCache);
       verdictCache.evidence = await lawThreads?.collect();
     } finally {
       lawThreads?.dispose();

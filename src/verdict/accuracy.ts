@@ -10,7 +10,7 @@ import type { MeanTargets } from "../theory/types.js";
 import type { SimulationResult } from "../run/types.js";
 import { estimateMeasures, type MeasureEstimates } from "./estimates.js";
 
-/** estimateMeasures(sim), computed once per result (pass it on to evaluateChecks' cache). */
+/** estimateMeasures(sim), computed once per result (the prediction targets and evaluateChecks both read it). */
 const memo = new WeakMap<object, Map<Measure, MeasureEstimates>>();
 export function meanEstimates(sim: SimulationResult): Map<Measure, MeasureEstimates> {
   let e = memo.get(sim);

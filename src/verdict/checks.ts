@@ -24,7 +24,8 @@ import type { Measure } from "../suite/schema.js";
 import { extrapolate, LEVEL, plainRatios, type Extrapolation } from "./extrapolate.js";
 import type { NormalityEvidence } from "./normality.js";
 import { lawEvidenceInput, lawEvidenceOf, type LawEvidence } from "./law-evidence.js";
-import { estimateMeasures, scaledSeries, type MeasureEstimates, type PointEstimate } from "./estimates.js";
+import { scaledSeries, type MeasureEstimates, type PointEstimate } from "./estimates.js";
+import { meanEstimates } from "./accuracy.js";
 import { insideBand, pathsToDecide, toleranceBand } from "./decide.js";
 import { coefficientPower, coefficientSeriesName, extrapolateCoefficient, extrapolateRemainder, linearisationEvidence, remainderDecision } from "./linearisation.js";
 import { sqrtMeanConstant, tieLawCheck } from "./tie-law.js";
@@ -86,7 +87,7 @@ interface LinearFit {
  * reads the cache (the same numbers: each entry is what evaluateChecks would compute itself).
  */
 export function prepareVerdictCache(sim: SimulationResult, prediction: Prediction, cache: VerdictCache): void {
-  cache.estimates ??= estimateMeasures(sim);
+  cache.estimates ??= meanEstimates(sim);
   cache.extrapolations ??= new Map();
   cache.linearFits ??= new Map();
   evaluateChecks(sim, prediction, { estimates: cache.estimates, extrapolations: cache.extrapolations, linearFits: cache.linearFits, evidence: cache.evidence, lawsPending: true });
@@ -113,7 +114,7 @@ export function evaluateChecks(sim: SimulationResult, prediction: Prediction, ca
 
   const blocksFor = (measure: Measure): MomentState[][] => measureBlocks(sim, measure);
   const predFor = (measure: Measure) => prediction.measures.find((m) => m.measure === measure);
-  const estimates = (cache.estimates ??= estimateMeasures(sim));
+  const estimates = (cache.estimates ??= meanEstimates(sim));
   const shared = (cache.extrapolations ??= new Map<string, Extrapolation>());
   const totalPaths = sim.blocks.reduce((a, b) => a + b.paths, 0);
 
