@@ -139,23 +139,33 @@ export function normal(): f64 {
 /**
  * Fills out[0..count) with standard normals (ziggurat). Same draws as `normal()` called count
  * times; the state lives in locals and goes back to the globals only around the rare slow path.
+ * The fast path is a loop of its own, left for the slow path (~1.5% of draws): with the call
+ * inside the loop, V8 kept the state in memory across iterations, and this form measured ~20%
+ * faster on the same draws (scratch timing of 4000-normal fills, min and median of 8 rounds).
  */
 export function fillNormals(out: usize, count: i32): void {
   let a = s0, b = s1, c = s2, d = s3;
   const X = zigTable;
-  for (let k = 0; k < count; k++) {
-    const r = rotl<u64>(b * 5, 7) * 9;
-    const t = b << 17;
-    c ^= a; d ^= b; b ^= c; a ^= d; c ^= t; d = rotl<u64>(d, 45);
-    const i = <usize>(r & 255);
-    const u = 2.0 * (<f64>(r >> 11) * TWO_M53) - 1.0;
-    let x = u * load<f64>(X + (i << 3));
-    if (!(Math.abs(x) < load<f64>(X + ((i + 1) << 3)))) {
-      s0 = a; s1 = b; s2 = c; s3 = d;
-      x = zigSlow(<i32>i, x, u);
-      a = s0; b = s1; c = s2; d = s3;
+  let k = 0;
+  while (k < count) {
+    let i: usize = 0;
+    let x: f64 = 0;
+    let u: f64 = 0;
+    for (; k < count; k++) {
+      const r = rotl<u64>(b * 5, 7) * 9;
+      const t = b << 17;
+      c ^= a; d ^= b; b ^= c; a ^= d; c ^= t; d = rotl<u64>(d, 45);
+      i = <usize>(r & 255);
+      u = 2.0 * (<f64>(r >> 11) * TWO_M53) - 1.0;
+      x = u * load<f64>(X + (i << 3));
+      if (!(Math.abs(x) < load<f64>(X + ((i + 1) << 3)))) break;
+      store<f64>(out + (<usize>k << 3), x);
     }
-    store<f64>(out + (<usize>k << 3), x);
+    if (k == count) break;
+    s0 = a; s1 = b; s2 = c; s3 = d;
+    store<f64>(out + (<usize>k << 3), zigSlow(<i32>i, x, u));
+    a = s0; b = s1; c = s2; d = s3;
+    k++;
   }
   s0 = a; s1 = b; s2 = c; s3 = d;
 }
