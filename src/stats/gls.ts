@@ -10,8 +10,10 @@
 // chi2 and the intervals are not overconfident. For beta: Gaussian profile likelihood,
 // -2 log L(beta) = chi2(beta) + const; beta_hat minimises it on a 0.005 grid refined by golden
 // section; the profile-likelihood interval of a parameter is {theta : chi2_prof(theta) - chi2_min
-// <= chi2_{1, level}} (Venzon & Moolgavkar, Appl. Stat. 37 (1988) 87), found by bisection.
-// Cost: O(m^3) once, then O(m^2) per evaluation (~10^4 evaluations for an interval).
+// <= chi2_{1, level}} ("A method for computing profile-likelihood-based confidence intervals",
+// Applied Statistics 37 (1988) 87 [memory for the title]): for beta by bisection, for s2 in closed
+// form over beta (fitPowerLawProfile says how).
+// Cost: O(m^3) once, then O(m^2) per evaluation (~10^3 evaluations for both intervals).
 // Example: y = 2 + 3 n^-0.5 exactly at n = 10..10^4 returns s2 = 2, beta = 0.5, chi2 = 0.
 
 import { chiSquareQuantile, chiSquareSf } from "./chisquare.js";
@@ -114,22 +116,11 @@ interface Powers {
 }
 
 /**
- * Bound factor of the rounding errors of a chi2 over c at given s2 (rootsAround's grid scan), both
- * as givenPrepared computes it and as A - (x'W r)^2 / x'W x (the same number in exact arithmetic):
- * each is within ~4 gamma (R + |c| X)^2 S (1 + gamma S X^2 / x'W x) of the exact value (dot products
- * of length 2m + 4: gamma = (2m + 4) u, u = 2^-53; R = max |y - s2|, X = max x, S = sum |W|;
- * "Accuracy and Stability of Numerical Algorithms", 2nd ed., SIAM 2002, sec. 3.1 for dot products).
- * 64 leaves a wide margin.
- */
-const CHI2_ERROR_FACTOR = 64;
-
-/**
- * chi2 of the model y = s2 + c n^-beta for given beta, minimised over (s2, c) or, when s2 is given,
- * over c only. The profile interval of s2 asks for ~10^4 of these on one data set, mostly at the
- * same grid of beta, so the powers n^-beta and x' W x are kept per grid point, and the products of
- * W with 1, y and y - s2 that do not depend on beta are computed once. Every number is the one
- * linearGls and quadForm would return (the same operations in the same order: `reference` runs
- * them, for the tests), only not recomputed.
+ * chi2 of the model y = s2 + c n^-beta for given beta, minimised over (s2, c). The profile intervals
+ * ask for ~10^3 of these on one data set, mostly at the same grid of beta, so the powers n^-beta
+ * and x' W x are kept per grid point, and the products of W with 1 and y that do not depend on beta
+ * are computed once. Every number is the one linearGls and quadForm would return (the same
+ * operations in the same order: `reference` runs them, for the tests), only not recomputed.
  */
 class PowerLawChi2 {
   private readonly grids = new Map<string, Powers[]>();
@@ -139,14 +130,6 @@ class PowerLawChi2 {
   private readonly wy: Float64Array;
   private readonly oneW1: number;
   private readonly oneWy: number;
-  /** y - s2 and W (y - s2) for the s2 of the last prepare(), (y - s2)' W (y - s2) and max |y - s2|. */
-  private readonly r0: Float64Array;
-  private readonly wr0: Float64Array;
-  private r0Wr0 = NaN;
-  private r0Max = NaN;
-  /** sum |W_ij|, and per grid point the lower bounds of gridMinimum (scratch). */
-  private readonly absW: number;
-  private lower = new Float64Array(0);
   private readonly r: Float64Array;
   /** Scratch powers for one-off beta (the golden-section points). */
   readonly scratch: Float64Array;
@@ -154,8 +137,6 @@ class PowerLawChi2 {
   constructor(readonly n: ArrayLike<number>, readonly y: ArrayLike<number>, readonly w: Float64Array, readonly reference = false) {
     const m = (this.m = n.length);
     this.r = new Float64Array(m);
-    this.r0 = new Float64Array(m);
-    this.wr0 = new Float64Array(m);
     this.scratch = new Float64Array(m);
     this.w1 = new Float64Array(m);
     this.wy = new Float64Array(m);
@@ -175,9 +156,6 @@ class PowerLawChi2 {
     }
     this.oneW1 = oneW1;
     this.oneWy = oneWy;
-    let absW = 0;
-    for (let i = 0; i < m * m; i++) absW += Math.abs(w[i]);
-    this.absW = absW;
   }
 
   /** The powers at beta, into `xb` (a new array by default). */
@@ -206,12 +184,7 @@ class PowerLawChi2 {
     let points = this.grids.get(key);
     if (!points) {
       const steps = Math.round((hi - lo) / step);
-      // Every other point of a grid twice as fine: the same beta (lo + (h 2i)/(2 steps) = lo + (h i)/steps
-      // in floating point too, doubling being exact), so the same powers.
-      const finer = this.reference ? undefined : this.grids.get(`${lo} ${hi} ${step / 2}`);
-      points = finer && finer.length === 2 * steps + 1
-        ? Array.from({ length: steps + 1 }, (_, i) => finer[2 * i])
-        : Array.from({ length: steps + 1 }, (_, i) => this.powers(i === 0 ? lo : gridPoint(lo, hi, steps, i)));
+      points = Array.from({ length: steps + 1 }, (_, i) => this.powers(i === 0 ? lo : gridPoint(lo, hi, steps, i)));
       this.grids.set(key, points);
     }
     return points;
@@ -271,229 +244,52 @@ class PowerLawChi2 {
     const g = linearGls(this.y, design, 2, this.w);
     return { chi2: g.chi2, s2: g.coef[0], c: g.coef[1], s2SE: Math.sqrt(g.coefCov[0]) };
   }
-
-  /** Sets the s2 of the following givenPrepared calls (y - s2 and W (y - s2) do not depend on beta). */
-  private prepare(s2: number): void {
-    const m = this.m;
-    const w = this.w;
-    let r0Max = 0;
-    for (let i = 0; i < m; i++) {
-      this.r0[i] = this.y[i] - s2;
-      r0Max = Math.max(r0Max, Math.abs(this.r0[i]));
-    }
-    let r0Wr0 = 0;
-    for (let i = 0; i < m; i++) {
-      let t = 0;
-      for (let j = 0; j < m; j++) t += w[i * m + j] * this.r0[j];
-      this.wr0[i] = t;
-      r0Wr0 += this.r0[i] * t;
-    }
-    this.r0Wr0 = r0Wr0;
-    this.r0Max = r0Max;
-  }
-
-  /**
-   * The grid scan of minimise1d over `points` for the prepared s2: the first index of the least
-   * chi2 and that chi2, the very numbers of the scan. The chi2 is computed exactly (givenPrepared)
-   * only where the cheap form A - (x'W r)^2 / x'W x, within its rounding bound, does not exclude
-   * the minimum: every other point's chi2 is strictly larger. null when `enough(u)` holds for an
-   * upper bound u of the minimum (the caller then needs no more).
-   */
-  gridMinimum(points: Powers[], enough: (upper: number) => boolean): { i: number; fx: number } | null {
-    const m = this.m;
-    const G = points.length;
-    if (this.lower.length < G) this.lower = new Float64Array(G);
-    const lower = this.lower;
-    const gamma = (2 * m + 4) * 2 ** -53;
-    const S = this.absW;
-    const A = this.r0Wr0;
-    const R = this.r0Max;
-    let upper = Infinity;
-    let usable = Number.isFinite(A) && Number.isFinite(R) && Number.isFinite(S);
-    for (let j = 0; j < G && usable; j++) {
-      const p = points[j];
-      const xb = p.xb;
-      let sx = 0;
-      for (let i = 0; i < m; i++) sx += xb[i] * this.wr0[i];
-      const c = sx / p.xwx;
-      const approx = A - sx * c;
-      const z = R + Math.abs(c) * p.xmax;
-      const err = CHI2_ERROR_FACTOR * gamma * z * z * S * (1 + (gamma * S * p.xmax * p.xmax) / p.xwx);
-      // Far from overflow, so that every exact chi2 is finite too; else the plain scan.
-      if (!(Number.isFinite(approx) && err < 1e290 && p.xwx > 0)) usable = false;
-      lower[j] = approx - err;
-      upper = Math.min(upper, approx + err);
-    }
-    if (!usable) {
-      let bi = 0;
-      let bf = this.givenPrepared(points[0]);
-      for (let j = 1; j < G; j++) {
-        const fx = this.givenPrepared(points[j]);
-        if (fx < bf) {
-          bf = fx;
-          bi = j;
-        }
-      }
-      return { i: bi, fx: bf };
-    }
-    if (enough(upper)) return null;
-    let bi = -1;
-    let bf = NaN;
-    for (let j = 0; j < G; j++) {
-      if (!(lower[j] <= upper)) continue;
-      const fx = this.givenPrepared(points[j]);
-      if (bi < 0 || fx < bf) {
-        bf = fx;
-        bi = j;
-      }
-    }
-    return { i: bi, fx: bf };
-  }
-
-  /** Over c only, s2 given (by prepare): the chi2. */
-  private givenPrepared(p: Powers): number {
-    const m = this.m;
-    const { xb, xwx } = p;
-    let s = 0;
-    for (let i = 0; i < m; i++) s += xb[i] * this.wr0[i];
-    const c = s / xwx;
-    const r = this.r;
-    for (let i = 0; i < m; i++) r[i] = this.r0[i] - c * xb[i];
-    return quadForm(this.w, m, r);
-  }
-
-  /** chi2 over c only as a function of the powers, for one s2 (prepared once in the fast path). */
-  givenS2At(s2: number): (p: Powers) => number {
-    if (this.reference) return (p) => this.givenS2(s2, p);
-    this.prepare(s2);
-    return (p) => this.givenPrepared(p);
-  }
-
-  /** Over c only, s2 given: the chi2 (the plain computation). */
-  givenS2(s2: number, p: Powers): number {
-    const m = this.m;
-    const { xb, xwx } = p;
-    const r = this.r;
-    for (let i = 0; i < m; i++) r[i] = this.y[i] - s2;
-    const c = quadForm(this.w, m, xb, r) / xwx;
-    for (let i = 0; i < m; i++) r[i] -= c * xb[i];
-    return quadForm(this.w, m, r);
-  }
 }
 
 /** Grid point i of steps on [lo, hi] (i >= 1), as minimise1d places it. */
 const gridPoint = (lo: number, hi: number, steps: number, i: number) => lo + ((hi - lo) * i) / steps;
 
 /**
- * The golden-section points of minimise1d already evaluated, as a tree: the k-th point of a search
- * depends only on its grid start and on which side each earlier step kept, so a node (start, path)
- * always stands for the same beta. Searches for nearby s2 (the bisections of the profile interval)
- * share long paths, and their points' powers are computed once.
- */
-export interface GoldenNode<P> {
-  point?: P;
-  kids: [GoldenNode<P> | undefined, GoldenNode<P> | undefined];
-}
-
-/** Points cached along golden-section paths: `at` computes a point, `f` the objective at it. */
-export interface GoldenMemo<P> {
-  roots: Map<number, GoldenNode<P>>;
-  at: (x: number) => P;
-  f: (p: P) => number;
-}
-
-const child = <P>(node: GoldenNode<P>, side: 0 | 1): GoldenNode<P> => (node.kids[side] ??= { kids: [undefined, undefined] });
-
-/**
  * Minimises f on [lo, hi]: grid of step `step`, then golden section around the best point;
- * atGrid(i) = f(grid point i) when given; `memo` (its f equal to f) keeps the golden-section points;
- * `start`: the grid scan's answer (first index of the least value, and that value) when known.
+ * atGrid(i) = f(grid point i) when given.
  */
-function minimise1d<P>(
-  f: (b: number) => number, lo: number, hi: number, step = 0.005, atGrid?: (i: number) => number, memo?: GoldenMemo<P>, start?: { i: number; fx: number },
-): { x: number; fx: number } {
+function minimise1d(f: (b: number) => number, lo: number, hi: number, step = 0.005, atGrid?: (i: number) => number): { x: number; fx: number } {
   let bx = lo;
-  let bi = 0;
   const steps = Math.round((hi - lo) / step);
-  let bf: number;
-  if (start) {
-    bi = start.i;
-    bf = start.fx;
-    if (bi > 0) bx = gridPoint(lo, hi, steps, bi);
-  } else {
-    bf = atGrid ? atGrid(0) : f(lo);
-    for (let i = 1; i <= steps; i++) {
-      const x = gridPoint(lo, hi, steps, i);
-      const fx = atGrid ? atGrid(i) : f(x);
-      if (fx < bf) {
-        bf = fx;
-        bx = x;
-        bi = i;
-      }
+  let bf = atGrid ? atGrid(0) : f(lo);
+  for (let i = 1; i <= steps; i++) {
+    const x = gridPoint(lo, hi, steps, i);
+    const fx = atGrid ? atGrid(i) : f(x);
+    if (fx < bf) {
+      bf = fx;
+      bx = x;
     }
   }
-  // The objective at the k-th golden-section point x: through the memo's tree when given.
-  let node: GoldenNode<P> | undefined;
-  if (memo) {
-    node = memo.roots.get(bi);
-    if (!node) memo.roots.set(bi, (node = { kids: [undefined, undefined] }));
-  }
-  const g = (x: number, side: 0 | 1): number => {
-    if (!memo) return f(x);
-    node = child(node!, side);
-    return memo.f((node.point ??= memo.at(x)));
-  };
   let a = Math.max(lo, bx - step);
   let b = Math.min(hi, bx + step);
   const gr = (Math.sqrt(5) - 1) / 2;
   let c = b - gr * (b - a);
   let d = a + gr * (b - a);
-  let fc = g(c, 0);
-  let fd = g(d, 0);
+  let fc = f(c);
+  let fd = f(d);
   for (let i = 0; i < 60; i++) {
     if (fc < fd) {
       b = d;
       d = c;
       fd = fc;
       c = b - gr * (b - a);
-      fc = g(c, 0);
+      fc = f(c);
     } else {
       a = c;
       c = d;
       fc = fd;
       d = a + gr * (b - a);
-      fd = g(d, 1);
+      fd = f(d);
     }
   }
   const x = 0.5 * (a + b);
-  const fx = g(x, 0);
+  const fx = f(x);
   return fx < bf ? { x, fx } : { x: bx, fx: bf };
-}
-
-/** Interval {t : inside(t)} around t0 (inside(t0)), by outward search and bisection; +-Infinity if unbounded. */
-function rootsAround(inside: (t: number) => boolean, t0: number, scale: number): [number, number] {
-  const edge = (dir: number): number => {
-    let inner = t0;
-    let step = scale > 0 && Number.isFinite(scale) ? scale : Math.max(1e-8, Math.abs(t0) * 1e-3);
-    let outer = t0 + dir * step;
-    let k = 0;
-    while (inside(outer)) {
-      inner = outer;
-      step *= 2;
-      outer = t0 + dir * step;
-      if (++k > 60) return dir * Infinity;
-    }
-    for (let i = 0; i < 80; i++) {
-      const mid = 0.5 * (inner + outer);
-      // Adjacent floating-point numbers: mid is an end whose side is known (t0 itself is not evaluated),
-      // so every further step would leave both ends as they are.
-      if (mid === outer || (mid === inner && inner !== t0)) break;
-      if (inside(mid)) inner = mid;
-      else outer = mid;
-    }
-    return 0.5 * (inner + outer);
-  };
-  return [edge(-1), edge(1)];
 }
 
 /** Fits y = s2 + c n^-beta with beta profiled over [betaMin, betaMax]. Needs m >= 4 points. */
@@ -506,7 +302,7 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
   const w = weightMatrix(cov, m, opts.blocks);
   const model = new PowerLawChi2(n, y, w, opts.reference === true);
   const fitGrid = model.grid(betaMin, betaMax, 0.005);
-  const chi2At = (b: number) => model.full(model.powers(b)).chi2;
+  const chi2At = (b: number) => model.full(model.powers(b, model.scratch)).chi2;
   const best = minimise1d(chi2At, betaMin, betaMax, 0.005, (i) => model.full(fitGrid[i]).chi2);
   const at = model.full(model.powers(best.x));
   const q = chiSquareQuantile(level, 1);
@@ -536,25 +332,25 @@ export function fitPowerLawProfile(n: ArrayLike<number>, y: ArrayLike<number>, c
     }
     if (!found) betaInterval[dir < 0 ? 0 : 1] = dir < 0 ? betaMin : betaMax;
   }
-  // s2 is inside its profile interval when profS2(s2) <= 0. The fast path decides it with the same
-  // answer: the minimum over beta is at most the grid scan's minimum, so a grid minimum (or an
-  // upper bound of it) that is already inside decides without the golden section; the golden
-  // section's points are kept over the searches (one per s2 tried; nearby s2 share their paths).
-  const s2Grid = opts.intervals === false ? [] : model.grid(betaMin, betaMax, 0.01);
-  const profS2 = (s: number) => {
-    const chi2 = model.givenS2At(s);
-    return minimise1d((b) => chi2(model.powers(b, model.scratch)), betaMin, betaMax, 0.01, (i) => chi2(s2Grid[i])).fx - chi2Min - q;
+  // s2's profile interval in closed form over beta. At fixed beta the chi2 minimised over c is
+  // quadratic in s2: chi2(s2, beta) = chi2(beta) + (s2 - s2hat(beta))^2 / V00(beta), V = (X'WX)^-1
+  // (partial minimisation of a quadratic form; common practice). So {s2 : min_beta chi2(s2, beta)
+  // - chi2Min <= q} is the union over beta of s2hat(beta) -/+ sqrt((chi2Min + q - chi2(beta)) V00(beta)),
+  // and its ends are the least lower end and the largest upper end over beta (the interval spanning
+  // the union): two searches over beta (the 0.005 grid, then golden section) instead of a bisection
+  // on s2 with a search over beta at each of its steps.
+  const s2End = (sign: 1 | -1): number => {
+    // -sign times the end of beta's interval: minimised; +Infinity where beta admits no s2.
+    const f = (p: Powers): number => {
+      const r = model.full(p);
+      const d = chi2Min + q - r.chi2;
+      return d >= 0 ? -sign * r.s2 - Math.sqrt(d) * r.s2SE : Infinity;
+    };
+    const found = minimise1d((b) => f(model.powers(b, model.scratch)), betaMin, betaMax, 0.005, (i) => f(fitGrid[i]));
+    // beta_hat itself (chi2 = chi2Min there) always belongs; the grid may straddle it.
+    return -sign * Math.min(found.fx, -sign * at.s2 - Math.sqrt(q) * at.s2SE);
   };
-  const roots = new Map<number, GoldenNode<Powers>>();
-  const notAbove = (fx: number) => fx - chi2Min - q <= 0;
-  const inside = (s: number): boolean => {
-    if (opts.reference) return profS2(s) <= 0;
-    const chi2 = model.givenS2At(s);
-    const start = model.gridMinimum(s2Grid, notAbove);
-    if (start === null || notAbove(start.fx)) return true;
-    return notAbove(minimise1d((b) => chi2(model.powers(b, model.scratch)), betaMin, betaMax, 0.01, undefined, { roots, at: (b: number) => model.powers(b), f: chi2 }, start).fx);
-  };
-  const s2Interval: [number, number] = opts.intervals === false ? [NaN, NaN] : rootsAround(inside, at.s2, at.s2SE);
+  const s2Interval: [number, number] = opts.intervals === false ? [NaN, NaN] : [s2End(-1), s2End(1)];
   const df = m - 3;
   return {
     mode: "profile",

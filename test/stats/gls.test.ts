@@ -114,7 +114,9 @@ describe("power-law extrapolation y = s2 + c n^-beta", () => {
 describe("profile fit: fewer evaluations, the same numbers", () => {
   // Six fixed-seed data sets on a 6-point grid with correlated errors. The expected intervals were
   // printed by the implementation before the speed-up (commit fdd42e7: chi2 recomputed from scratch
-  // at every beta, 80 / 50 bisection steps); they must come out bit for bit.
+  // at every beta, 80 / 50 bisection steps). beta's interval must come out bit for bit; s2's is now
+  // computed in closed form over beta (the union of the per-beta intervals) instead of by bisection
+  // on s2, so its ends must agree with the bisection's to rounding level (see below).
   const grid = [32, 64, 128, 256, 512, 1024];
   const before: [[number, number], [number, number]][] = [
     [[6.787085963091506, 6.962919084575212], [0.2347130912759942, 0.7296486951833547]],
@@ -132,11 +134,50 @@ describe("profile fit: fewer evaluations, the same numbers", () => {
     const y = grid.map((n) => 6.8 - 2.5 * Math.pow(n, -0.7 - 0.1 * c) + 0.01 * gaussian(rng));
     return { cov, y };
   });
-  it("profile intervals of s2 and beta equal the pre-speed-up values exactly", () => {
+  it("beta's profile interval equals the pre-speed-up values exactly; s2's agrees with the bisection's", () => {
+    // Both methods find the ends of the same set; the bisection stopped at adjacent floating-point
+    // numbers of its test, whose inner minimum over beta had the golden section's resolution, so
+    // the two differ by rounding (~1e-13 of the width here). 1e-9 of the width is far below the 6
+    // digits any report prints; a wrong closed form (a factor, a sign) would miss by O(width).
     cases.forEach(({ cov, y }, c) => {
       const f = fitPowerLawProfile(grid, y, cov, { blocks: 64 });
-      expect(f.s2Interval).toEqual(before[c][0]);
+      const width = before[c][0][1] - before[c][0][0];
+      for (const e of [0, 1]) expect(Math.abs(f.s2Interval[e] - before[c][0][e])).toBeLessThanOrEqual(1e-9 * width);
       expect(f.betaInterval).toEqual(before[c][1]);
+    });
+  });
+  it("s2's interval ends are where the profile chi2 crosses chi2_min + chi2_{1,0.95} (brute force over beta)", () => {
+    // Independent of gls.ts's search: chi2(s2, beta) with c fitted by weighted least squares, its
+    // minimum over a 1e-4 grid of beta on [0.1, 2] (the grid only over-estimates the minimum, by
+    // ~1e-7 at this spacing). Just outside an end the profile must exceed the threshold; just
+    // inside it must be below (1e-6 of the width either side moves the profile by ~1e-5).
+    const m = grid.length;
+    const q = 3.841458820694124; // chi2_{1, 0.95} (common tables; chiSquareQuantile(0.95, 1))
+    cases.forEach(({ cov, y }) => {
+      const f = fitPowerLawProfile(grid, y, cov, { blocks: 64 });
+      const w = weightMatrix(cov, m, 64);
+      const quad = (a: number[], b: number[]) => {
+        let t = 0;
+        for (let i = 0; i < m; i++) for (let j = 0; j < m; j++) t += a[i] * w[i * m + j] * b[j];
+        return t;
+      };
+      const profile = (s2: number) => {
+        const r0 = y.map((v) => v - s2);
+        let best = Infinity;
+        for (let k = 0; k <= 19000; k++) {
+          const x = grid.map((n) => Math.pow(n, -(0.1 + k * 1e-4)));
+          const cc = quad(x, r0) / quad(x, x);
+          const r = r0.map((v, i) => v - cc * x[i]);
+          best = Math.min(best, quad(r, r));
+        }
+        return best;
+      };
+      const threshold = f.chi2 + q;
+      const d = 1e-6 * (f.s2Interval[1] - f.s2Interval[0]);
+      expect(profile(f.s2Interval[0] - d)).toBeGreaterThan(threshold);
+      expect(profile(f.s2Interval[0] + d)).toBeLessThan(threshold);
+      expect(profile(f.s2Interval[1] + d)).toBeGreaterThan(threshold);
+      expect(profile(f.s2Interval[1] - d)).toBeLessThan(threshold);
     });
   });
   it("intervals: false skips only the intervals (estimate, rate and misfit unchanged)", () => {
@@ -151,9 +192,8 @@ describe("profile fit: fewer evaluations, the same numbers", () => {
 });
 
 describe("power-law fits: fast path vs the plain computations", () => {
-  // The fast path (W 1, W y, W (y - s2) computed once, linearGls written out for the design [1, x],
-  // the grid scan pruned by a rounding bound, golden sections skipped or their points kept) must
-  // return the plain path's numbers bit for bit, -0 and NaN included.
+  // The fast path (W 1 and W y computed once, the powers of the grid kept, linearGls written out
+  // for the design [1, x]) must return the plain path's numbers bit for bit, -0 and NaN included.
   const bits = (v: unknown) => JSON.stringify(v, (_, x) => (typeof x === "number" ? (Object.is(x, -0) ? "-0" : String(x)) : x));
   const rng = seedrandom("gls-fast-vs-reference");
   const grids = [[31, 62, 125, 250, 500, 1000], [10, 20, 40, 80, 160, 320, 640], [62, 125, 250, 500, 1000], [8, 16, 32, 64, 128, 256, 512, 1024, 2048]];
