@@ -267,9 +267,12 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
   const startedAt = new Date();
   const withChecks = !flags["no-checks"];
   const earlyPrediction = withChecks && !part ? new EarlyPrediction(suite, predictBudget, !flags["no-cache"]) : null;
-  // Law-evidence helper threads start while the last blocks run (one per worker still busy).
+  // Law-evidence helper threads start once half of the blocks are merged (at the latest with the
+  // last blocks): loading their code takes 0.1-0.3 s of CPU, which while blocks run costs the
+  // simulation about half that on a busy machine and is over when the checks need the helpers
+  // (started only with the last blocks, the load outlasted the simulation by up to 0.3 s).
   const lawThreads = withChecks && !part ? new LawEvidenceThreads() : null;
-  const tailFrom = blockCount(suite) - (workers ?? defaultWorkers());
+  const helpersFrom = Math.min(blockCount(suite) - (workers ?? defaultWorkers()), Math.ceil(blockCount(suite) / 2));
   let outcome;
   try {
     outcome = await runSuite(suite, {
@@ -284,7 +287,7 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
       early,
       onBlockMerged: (blocks) => {
         earlyPrediction?.offer(blocks);
-        if (blocks.size >= tailFrom) lawThreads?.start(suite.measure.length);
+        if (blocks.size >= helpersFrom) lawThreads?.start(suite.measure.length);
       },
     });
   } catch (e) {

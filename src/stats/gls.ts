@@ -17,14 +17,10 @@
 // Example: y = 2 + 3 n^-0.5 exactly at n = 10..10^4 returns s2 = 2, beta = 0.5, chi2 = 0.
 
 import { chiSquareQuantile, chiSquareSf } from "./chisquare.js";
+import { glsFit, type GlsFit } from "./gls-fit.js";
 import { choleskyInverse, quadForm } from "./linalg.js";
 
-export interface LinearGlsResult {
-  coef: Float64Array;
-  /** Covariance of coef (k x k). */
-  coefCov: Float64Array;
-  chi2: number;
-  df: number;
+export interface LinearGlsResult extends GlsFit {
   /** Misfit p-value P(chi2_df > chi2); NaN when df = 0. */
   pValue: number;
 }
@@ -40,29 +36,10 @@ export function weightMatrix(cov: ArrayLike<number>, m: number, blocks?: number)
   return w;
 }
 
-/** GLS of y (length m) on the m x k design X (row-major) with weight matrix W. */
+/** GLS of y (length m) on the m x k design X (row-major) with weight matrix W, with the misfit p-value. */
 export function linearGls(y: ArrayLike<number>, x: ArrayLike<number>, k: number, w: ArrayLike<number>): LinearGlsResult {
-  const m = y.length;
-  const xtwx = new Float64Array(k * k);
-  const xtwy = new Float64Array(k);
-  const col = (j: number) => Float64Array.from({ length: m }, (_, i) => x[i * k + j]);
-  const cols = Array.from({ length: k }, (_, j) => col(j));
-  for (let a = 0; a < k; a++) {
-    xtwy[a] = quadForm(w, m, cols[a], y);
-    for (let b = 0; b < k; b++) xtwx[a * k + b] = quadForm(w, m, cols[a], cols[b]);
-  }
-  const coefCov = choleskyInverse(xtwx, k, "design");
-  const coef = new Float64Array(k);
-  for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) coef[a] += coefCov[a * k + b] * xtwy[b];
-  const r = new Float64Array(m);
-  for (let i = 0; i < m; i++) {
-    let f = 0;
-    for (let a = 0; a < k; a++) f += x[i * k + a] * coef[a];
-    r[i] = y[i] - f;
-  }
-  const chi2 = quadForm(w, m, r);
-  const df = m - k;
-  return { coef, coefCov, chi2, df, pValue: df > 0 ? chiSquareSf(chi2, df) : NaN };
+  const fit = glsFit(y, x, k, w);
+  return { ...fit, pValue: fit.df > 0 ? chiSquareSf(fit.chi2, fit.df) : NaN };
 }
 
 export interface PowerLawFit {

@@ -4,10 +4,10 @@
 // The evidence of one measure (sorting its kept samples, the distance to the normal family, the
 // shape trends) is ~40% of the verdict stage and independent of every other measure, so `walkhull
 // run` hands the measures to LawEvidenceThreads: one helper thread per spare core (started while
-// the last blocks are simulated, so that its start-up costs no wall time), the main thread taking
-// measures from the same queue once it has computed the control-variate estimates. A helper
-// computes exactly what the main thread would (the same function on structured-cloned numbers,
-// which keep every bit); a helper that fails leaves its measure to the main thread.
+// blocks are still simulated, so that its start-up is over when the checks begin), while the main
+// thread computes the rest of the verdict stage (it computes measures itself only without a helper,
+// or for a helper that failed). A helper computes exactly what the main thread would (the same
+// function on structured-cloned numbers, which keep every bit).
 
 import { availableParallelism } from "node:os";
 import { Worker } from "node:worker_threads";
@@ -69,10 +69,10 @@ export class LawEvidenceThreads {
   private readonly results = new Map<Measure, LawEvidence>();
   private wake: (() => void) | null = null;
 
-  /** Start the helper threads (idempotent): one per core beyond the main thread's, at most `measures - 1`. */
+  /** Start the helper threads (idempotent): one per core beyond the main thread's, at most one per measure. */
   start(measures: number): void {
     if (this.helpers.length) return;
-    const count = Math.max(0, Math.min(availableParallelism() - 1, measures - 1));
+    const count = Math.max(0, Math.min(availableParallelism() - 1, measures));
     for (let i = 0; i < count; i++) {
       const helper: Helper = { worker: new Worker(WORKER_URL), busy: [], dead: false };
       const lost = () => {
@@ -84,7 +84,6 @@ export class LawEvidenceThreads {
       helper.worker.on("message", (msg: { measure: Measure; evidence: LawEvidence }) => {
         this.results.set(msg.measure, msg.evidence);
         helper.busy = helper.busy.filter((m) => m !== msg.measure);
-        this.feed(helper);
         this.wake?.();
       });
       helper.worker.on("error", lost);
@@ -94,37 +93,34 @@ export class LawEvidenceThreads {
   }
 
   /**
-   * Keep two measures on the helper: its answer is read only when this thread's event loop turns,
-   * which the synchronous verdict work here can delay by a measure's time or more; with a second
-   * measure queued on the helper it does not sit idle meanwhile.
+   * Hand the run's measures out: all of them to the helpers at once (in turn, the dearest first),
+   * none kept for this thread while a helper lives. This thread is busy with the rest of the verdict
+   * stage meanwhile, synchronously: a helper that had to wait for it to read an answer before
+   * getting its next measure sat idle (measured), and a warm helper computes a measure in about a
+   * third of the CPU a cold main thread needs. Without helpers this thread computes them in collect.
    */
-  private feed(helper: Helper): void {
-    const sim = this.sim;
-    if (!sim) return;
-    while (!helper.dead && helper.busy.length < 2) {
-      const measure = this.queue.shift();
-      if (measure === undefined) return;
-      helper.busy.push(measure);
-      helper.worker.postMessage(lawEvidenceInput(sim, measure));
-    }
-  }
-
-  /** Hand the run's measures out: each helper gets two now (the main thread takes the rest in collect). */
   dispatch(sim: SimulationResult): void {
     this.start(sim.suite.measure.length);
     this.sim = sim;
     // The vertex count (continuity-corrected distance over few values) is the cheapest: last.
-    this.queue = [...sim.suite.measure].sort((a, b) => Number(a === "vertices") - Number(b === "vertices"));
-    for (const h of this.helpers) this.feed(h);
+    const order = [...sim.suite.measure].sort((a, b) => Number(a === "vertices") - Number(b === "vertices"));
+    const live = this.helpers.filter((h) => !h.dead);
+    if (!live.length) {
+      this.queue = order;
+      return;
+    }
+    order.forEach((measure, i) => {
+      const helper = live[i % live.length];
+      helper.busy.push(measure);
+      helper.worker.postMessage(lawEvidenceInput(sim, measure));
+    });
   }
 
-  /** Compute the measures still queued on this thread, wait for the helpers, end them; the evidence of every measure. */
+  /** Compute the measures left to this thread (no helper, or a helper failed), wait for the helpers, end them; the evidence of every measure. */
   async collect(): Promise<Map<Measure, LawEvidence>> {
     const sim = this.sim;
     if (!sim) throw new Error("law evidence: collect before dispatch");
     for (;;) {
-      // Let the helpers' answers in (each takes the next queued measure) before taking one here.
-      await new Promise((r) => setImmediate(r));
       const measure = this.queue.shift();
       if (measure !== undefined) {
         this.results.set(measure, lawEvidenceOf(lawEvidenceInput(sim, measure)));

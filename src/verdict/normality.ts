@@ -14,7 +14,7 @@ import { lillieforsPValue, sortedCopy } from "../stats/lilliefors.js";
 import { mergeAll, summarize } from "../stats/moments.js";
 import { KsDistanceSearch, normalDistanceSorted, sortedStatsAll, type NormalDistance } from "../stats/normal-distance.js";
 import { normalQuantile, normalSf, twoSidedNormalP } from "../stats/normal.js";
-import { linearGls } from "../stats/gls.js";
+import { glsFit } from "../stats/gls-fit.js";
 import { excessKurtosisZ, skewnessZ } from "../stats/shape.js";
 import type { MomentState } from "../stats/types.js";
 
@@ -177,7 +177,7 @@ function shapeLimit(s: number[], full: number[], leaveOut: number[][], sizes: nu
 /** First coefficient of the ordinary least-squares fit of y on the m x k design (GLS with weight I); NaN when singular. */
 function leastSquaresIntercept(y: number[], x: number[], k: number, identity: Float64Array): number {
   try {
-    return linearGls(y, x, k, identity).coef[0];
+    return glsFit(y, x, k, identity).coef[0];
   } catch {
     return NaN;
   }
