@@ -351,9 +351,10 @@ const freshOverNative = native ? median(freshOverNativeRounds) : null;
 
 // ---- Checks' share of a run: `walkhull run` (a fresh process, 2 workers) with checks against
 // --no-checks, with a cold prediction cache (a new XDG_CACHE_HOME each time) and a warm one; rounds
-// alternate the three kinds, medians of the rounds.
+// alternate the three kinds, medians of the rounds. Each round's own ratios are kept too, with their
+// range: on a shared machine one run can be 10-20% off, and the spread says what a ratio can resolve.
 const CHECK_PATHS = smoke ? 4000 : 100_000;
-const CHECK_ROUNDS = smoke ? 1 : 3;
+const CHECK_ROUNDS = smoke ? 1 : 5;
 const cliPath = fileURLToPath(new URL("../dist/cli.js", import.meta.url));
 const checkSuite = join(tmp, "checks-suite.json");
 writeFileSync(checkSuite, JSON.stringify({
@@ -380,6 +381,7 @@ const checksShare = {
   paths: CHECK_PATHS, rounds: CHECK_ROUNDS, runs: kinds,
   noChecks: median(kinds.noChecks), cold: median(kinds.cold), warm: median(kinds.warm),
   coldRatio: median(kinds.cold) / median(kinds.noChecks), warmRatio: median(kinds.warm) / median(kinds.noChecks),
+  coldRatioRounds: kinds.cold.map((t, i) => t / kinds.noChecks[i]), warmRatioRounds: kinds.warm.map((t, i) => t / kinds.noChecks[i]),
 };
 
 // Memory of one worker: its V8 heap and its kernel's WASM memory, reported by an idle worker that
@@ -461,8 +463,9 @@ out.push(`\nChecks' share of a run: walkhull run (new process, 2 workers), two w
 out.push("| run | seconds | / --no-checks |");
 out.push("|---|---|---|");
 out.push(`| --no-checks | ${checksShare.noChecks.toFixed(2)} | 1.00 |`);
-out.push(`| checks, cold prediction cache | ${checksShare.cold.toFixed(2)} | ${f2(checksShare.coldRatio)} |`);
-out.push(`| checks, warm prediction cache | ${checksShare.warm.toFixed(2)} | ${f2(checksShare.warmRatio)} |`);
+const roundRange = (xs: number[]) => `${f2(Math.min(...xs))}-${f2(Math.max(...xs))}`;
+out.push(`| checks, cold prediction cache | ${checksShare.cold.toFixed(2)} | ${f2(checksShare.coldRatio)} (rounds ${roundRange(checksShare.coldRatioRounds)}) |`);
+out.push(`| checks, warm prediction cache | ${checksShare.warm.toFixed(2)} | ${f2(checksShare.warmRatio)} (rounds ${roundRange(checksShare.warmRatioRounds)}) |`);
 out.push(`memory per worker (k = 2, n = 1000): V8 heap ${workerMemory.v8HeapMB.toFixed(1)} MiB + WASM memory ${workerMemory.wasmMB.toFixed(1)} MiB (the WASM table above gives other k, n)`);
 out.push("\nTargets");
 out.push("| target | measured | met |");

@@ -34,6 +34,10 @@ describe("bench --smoke", () => {
       expect(r.stdout).toContain("Checks' share of a run");
       for (const kind of ["noChecks", "cold", "warm"]) expect(j.checksShare[kind]).toBeGreaterThan(0);
       expect(j.checksShare.coldRatio).toBeCloseTo(j.checksShare.cold / j.checksShare.noChecks, 12);
+      // One round in the smoke run: its own ratios are the medians' ratios.
+      expect(j.checksShare.warmRatioRounds).toHaveLength(1);
+      expect(j.checksShare.warmRatioRounds[0]).toBeCloseTo(j.checksShare.warmRatio, 12);
+      expect(j.checksShare.coldRatioRounds[0]).toBeCloseTo(j.checksShare.coldRatio, 12);
       expect(j.targets.length).toBeGreaterThanOrEqual(6);
       if (hasGcc) {
         expect(j.nativeCheck.compared).toBeGreaterThan(0);
