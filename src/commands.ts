@@ -289,6 +289,7 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
         earlyPrediction?.offer(blocks);
         if (blocks.size >= helpersFrom) lawThreads?.start(suite.measure.length);
       },
+      onSimulated: (collector) => lawThreads?.dispatchEarly(collector),
     });
   } catch (e) {
     earlyPrediction?.dispose();

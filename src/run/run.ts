@@ -32,6 +32,11 @@ export interface RunOptions {
   early?: EarlyWorkers | null;
   /** After each merged block, the blocks merged so far (e.g. to start the predictions early). */
   onBlockMerged?: (blocks: Map<number, BlockStats>) => void;
+  /**
+   * Once every block is merged, before the kept sample is put in path order: the collector, whose
+   * keptColumns() gives the kept values unordered (e.g. to start the limit-law evidence early).
+   */
+  onSimulated?: (collector: BlockCollector) => void;
 }
 
 export type RunOutcome =
@@ -111,6 +116,7 @@ export async function runSuite(suite: LoadedSuite, opts: RunOptions = {}): Promi
     }
   }
   const wall = (performance.now() - t0) / 1000;
+  opts.onSimulated?.(collector);
   const sim = collector.result(wall, workers);
   progress.finish(`done: ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths in ${wall.toFixed(2)} s on ${workers} worker(s)`);
   return { status: "done", sim, collector };

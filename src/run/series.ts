@@ -10,7 +10,8 @@ import type { SimulationResult } from "./types.js";
 interface Source {
   suite: { n: readonly number[] };
   blocks: SimulationResult["blocks"];
-  sample: SimulationResult["sample"];
+  /** Only the values are read (in whatever order they are: the kept sample's is path order). */
+  sample: Pick<SimulationResult["sample"], "values">;
 }
 
 /** Position of a measure's value at grid index g in the result's per-path records. */

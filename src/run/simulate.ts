@@ -85,6 +85,28 @@ export class BlockCollector {
     return { blocks: [...this.blocks.values()].sort((a, b) => a.block - b.block), kept: this.compactKept(), min: this.min, max: this.max };
   }
 
+  /**
+   * Kept values of the record numbers `columns`, one array each, in storage order (no path order):
+   * the same values `result()` puts in path order, for readers that sort them anyway and need not
+   * wait for the ordering (the limit-law evidence).
+   */
+  keptColumns(columns: number[]): Float64Array[] {
+    const sets = this.keptCount <= MAX_KEPT ? this.kept : [this.compactKept()];
+    const count = sets.reduce((s, c) => s + c.pathIndex.length, 0);
+    const dim = this.dim;
+    const cols = columns.map(() => new Float64Array(count));
+    const width = columns.length;
+    // Row by row (the values are stored row-major): one pass over the memory.
+    let i = 0;
+    for (const c of sets) {
+      const v = c.values;
+      for (let r = 0, from = 0; r < c.pathIndex.length; r++, from += dim, i++) {
+        for (let k = 0; k < width; k++) cols[k][i] = v[from + columns[k]];
+      }
+    }
+    return cols;
+  }
+
   result(wallSeconds: number, workers: number): SimulationResult {
     const blocks = [...this.blocks.values()].sort((a, b) => a.block - b.block);
     return {

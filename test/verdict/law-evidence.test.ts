@@ -1,7 +1,11 @@
 import { describe, expect, it } from "vitest";
 import { validateSuite } from "../../src/suite/load.js";
 import { simulateInProcess } from "../../src/run/simulate.js";
-import { LawEvidenceThreads, lawEvidenceInput, lawEvidenceOf } from "../../src/verdict/law-evidence.js";
+import { LawEvidenceThreads, lawEvidenceInput, lawEvidenceOf, unorderedSource } from "../../src/verdict/law-evidence.js";
+import { runSuite } from "../../src/run/run.js";
+import { endParkedWorkers } from "../../src/run/pool.js";
+import type { BlockCollector } from "../../src/run/simulate.js";
+import type { SimulationResult } from "../../src/run/types.js";
 import { evaluateChecks } from "../../src/verdict/checks.js";
 import type { Prediction } from "../../src/theory/types.js";
 
@@ -49,5 +53,69 @@ describe("law evidence on helper threads", () => {
     for (const h of (threads as unknown as { helpers: { worker: { terminate(): Promise<number> } }[] }).helpers) await h.worker.terminate();
     const got = await threads.collect();
     for (const m of suite.measure) expect(got.get(m), m).toEqual(lawEvidenceOf(lawEvidenceInput(sim, m)));
+  });
+});
+
+describe("law evidence from the kept values before they are put in path order", () => {
+  // The evidence sorts each sample, so any order of the same values gives the same numbers; the
+  // helpers start on the unordered values (runSuite's onSimulated) while the main thread orders them.
+  it("any order of the kept values gives the same evidence, every measure (a reversed and a rotated order)", () => {
+    for (const m of suite.measure) {
+      const input = lawEvidenceInput(sim, m);
+      const reversed = { ...input, samples: input.samples.map((x) => x.slice().reverse()) };
+      const rotated = { ...input, samples: input.samples.map((x) => Float64Array.from(x, (_, i) => x[(i + 1234) % x.length])) };
+      const expected = lawEvidenceOf(input);
+      expect(lawEvidenceOf(reversed), m).toEqual(expected);
+      expect(lawEvidenceOf(rotated), m).toEqual(expected);
+    }
+  });
+
+  it("dispatched from runSuite's onSimulated (2 workers), the helpers return the evidence of the ordered sample", async () => {
+    const threads = new LawEvidenceThreads();
+    let early: ReturnType<typeof unorderedSource> | null = null;
+    const out = await runSuite(suite, {
+      workers: 2, checkpoint: null, log: () => {},
+      onSimulated: (collector: BlockCollector) => {
+        early = unorderedSource(collector);
+        threads.dispatchEarly(collector);
+      },
+    });
+    await endParkedWorkers();
+    expect(out.status).toBe("done");
+    const run = (out as { sim: SimulationResult }).sim;
+    // The unordered columns hold the same values as the kept sample (sorted copies equal).
+    const sortedOf = (x: Float64Array) => Float64Array.from(x).sort();
+    for (const m of suite.measure) {
+      const a = lawEvidenceInput(early!, m).samples, b = lawEvidenceInput(run, m).samples;
+      a.forEach((x, g) => expect(sortedOf(x)).toEqual(sortedOf(b[g])));
+    }
+    threads.dispatch(run);
+    const got = await threads.collect();
+    for (const m of suite.measure) expect(got.get(m), m).toEqual(lawEvidenceOf(lawEvidenceInput(run, m)));
+  });
+
+  it("an error answer to an early dispatch is computed again from the ordered sample (a NaN's position)", async () => {
+    // The same values with a NaN at index 7 of the perimeter's largest-n column in path order, and
+    // the unordered source holding them reversed (the NaN elsewhere): the message must name index 7.
+    const G = suite.n.length;
+    const input = lawEvidenceInput(sim, "perimeter");
+    const ordered = input.samples[G - 1].slice();
+    ordered[7] = NaN;
+    const values = [...sim.sample.values];
+    const at = values.indexOf(input.samples[G - 1]);
+    expect(at).toBeGreaterThanOrEqual(0);
+    values[at] = ordered;
+    const withNaN: SimulationResult = { ...sim, sample: { ...sim.sample, values } };
+    const reversedValues = values.map((x) => x.slice().reverse());
+    const fakeCollector = { suite, blocks: new Map(sim.blocks.map((b) => [b.block, b])), keptColumns: (cols: number[]) => cols.map((j) => reversedValues[j]) } as unknown as BlockCollector;
+    const threads = new LawEvidenceThreads();
+    threads.dispatchEarly(fakeCollector);
+    threads.dispatch(withNaN);
+    const got = await threads.collect();
+    const expected = lawEvidenceOf(lawEvidenceInput(withNaN, "perimeter"));
+    expect(typeof expected).toBe("string");
+    expect(expected).toMatch(/sample\[7\]: NaN/);
+    expect(got.get("perimeter")).toBe(expected);
+    for (const m of suite.measure) if (m !== "perimeter") expect(got.get(m), m).toEqual(lawEvidenceOf(lawEvidenceInput(withNaN, m)));
   });
 });
