@@ -309,9 +309,9 @@ async function cmdRun(args: string[], early: EarlyWorkers | null): Promise<numbe
     process.stdout.write(`part ${part.index} of ${part.count}: ${sim.blocks.length} blocks, ${sim.blocks.reduce((s, b) => s + b.paths, 0)} paths -> ${out}\n`);
     code = EXIT_OK;
   } else {
-    // The helpers compute law evidence while this thread settles the predictions (and the estimates
-    // they are sized by) and everything else the checks compute from the simulation; then this
-    // thread takes the measures still queued.
+    // The helpers compute the law evidence (sent at onSimulated, or now) while this thread settles
+    // the predictions (and the estimates they are sized by) and everything else the checks compute
+    // from the simulation; this thread computes a measure only without a helper or for one that failed.
     lawThreads?.dispatch(sim);
     let prediction: Prediction | undefined;
     const verdictCache: VerdictCache = {};
