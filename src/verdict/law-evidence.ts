@@ -39,7 +39,7 @@ export interface LawEvidenceInput {
  */
 export type LawSource = Pick<SimulationResult, "suite" | "blocks"> & { sample: Pick<SimulationResult["sample"], "values"> };
 
-/** The source of the kept values before they are put in path order (runSuite's onSimulated). */
+/** The source of the kept values before they are put in path order (runSuite's onSimulated): only the suite's measures' columns are filled. */
 export function unorderedSource(collector: BlockCollector): LawSource {
   const suite = collector.suite;
   const layout = recordLayout(suite.n.length);
