@@ -83,13 +83,11 @@ function validate(n: ArrayLike<number>, y: ArrayLike<number>, cov: ArrayLike<num
   return m;
 }
 
-/** n^-beta at the grid points (x), with x' W x, 1' W x and x' W 1 (each summed as quadForm sums it), and max x. */
+/** n^-beta at the grid points (x), with x' W x and x' W 1 (each summed as quadForm sums it). */
 interface Powers {
   xb: Float64Array;
   xwx: number;
-  oneWx: number;
   xW1: number;
-  xmax: number;
 }
 
 /**
@@ -100,7 +98,6 @@ interface Powers {
  * operations in the same order: `reference` runs them, for the tests), only not recomputed.
  */
 class PowerLawChi2 {
-  private readonly grids = new Map<string, Powers[]>();
   private readonly m: number;
   /** W 1 and W y (rows summed as quadForm does), 1' W 1 and 1' W y. */
   private readonly w1: Float64Array;
@@ -141,30 +138,20 @@ class PowerLawChi2 {
     const w = this.w;
     for (let i = 0; i < m; i++) xb[i] = Math.pow(this.n[i], -beta);
     let xwx = 0;
-    let oneWx = 0;
     let xW1 = 0;
-    let xmax = 0;
     for (let i = 0; i < m; i++) {
-      xmax = Math.max(xmax, xb[i]);
       let t = 0;
       for (let j = 0; j < m; j++) t += w[i * m + j] * xb[j];
       xwx += xb[i] * t;
-      oneWx += 1 * t;
       xW1 += xb[i] * this.w1[i];
     }
-    return { xb, xwx, oneWx, xW1, xmax };
+    return { xb, xwx, xW1 };
   }
 
   /** Powers at the grid points of minimise1d(f, lo, hi, step), by index. */
   grid(lo: number, hi: number, step: number): Powers[] {
-    const key = `${lo} ${hi} ${step}`;
-    let points = this.grids.get(key);
-    if (!points) {
-      const steps = Math.round((hi - lo) / step);
-      points = Array.from({ length: steps + 1 }, (_, i) => this.powers(i === 0 ? lo : gridPoint(lo, hi, steps, i)));
-      this.grids.set(key, points);
-    }
-    return points;
+    const steps = Math.round((hi - lo) / step);
+    return Array.from({ length: steps + 1 }, (_, i) => this.powers(i === 0 ? lo : gridPoint(lo, hi, steps, i)));
   }
 
   /** Over (s2, c): linearGls on the design [1, x], written out for k = 2 (its Cholesky inverse included). */
