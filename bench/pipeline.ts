@@ -438,6 +438,8 @@ const targets: { target: string; value: number; met: boolean | null; roundsRange
 // ---- Print.
 const f1 = (x: number | null) => (x === null || !Number.isFinite(x) ? "-" : x.toFixed(1));
 const f2 = (x: number | null) => (x === null || !Number.isFinite(x) ? "-" : x.toFixed(2));
+/** "min-max" of alternating rounds' values. */
+const range = (xs: number[]) => `${f2(Math.min(...xs))}-${f2(Math.max(...xs))}`;
 const out: string[] = [];
 out.push(`\nFull pipeline, Gaussian walks with unit drifts along the axes, cov I, hull + perimeter, diameter, area, vertices at one n; ns per step (a step moves every walk once); ${clock}${smoke ? " [smoke]" : ""}`);
 out.push("| walks | n | WASM | TS twin | native C | numpy+scipy | twin/WASM | WASM/native | numpy/WASM | filter survival |");
@@ -465,7 +467,6 @@ out.push("|---|---|---|---|---|");
 for (const p of parallel) out.push(`| ${p.workers} | ${p.seconds.toFixed(2)} | ${p.pathsPerSecond.toFixed(0)} | ${p.marginalPathsPerSecond.toFixed(0)} | ${p.freshThreadsSeconds.toFixed(2)} |`);
 out.push(`parallel efficiency (paths/s with 2) / (2 x paths/s with 1): ${(100 * efficiency).toFixed(1)}% end to end, ${(100 * marginalEfficiency).toFixed(1)}% marginal, ${(100 * freshEfficiency).toFixed(1)}% end to end with new threads (vs the 1-worker run)`);
 if (nativeParallel !== null) {
-  const range = (xs: number[]) => `${f2(Math.min(...xs))}-${f2(Math.max(...xs))}`;
   out.push(`native C on one core, same ${PARALLEL_PATHS} paths: ${nativeParallel.toFixed(2)} s wall (median of ${nativeRounds.length} rounds, ${range(nativeRounds.map((r) => r.native))} s); ` +
     `2 workers / native one core = ${f2(twoOverNative)} (rounds ${range(twoOverNativeRounds)}), ${f2(freshOverNative)} with new threads (rounds ${range(freshOverNativeRounds)}); medians of alternating rounds`);
 }
@@ -473,15 +474,14 @@ out.push(`\nChecks' share of a run: walkhull run (new process, 2 workers), two w
 out.push("| run | seconds | / --no-checks |");
 out.push("|---|---|---|");
 out.push(`| --no-checks | ${checksShare.noChecks.toFixed(2)} | 1.00 |`);
-const roundRange = (xs: number[]) => `${f2(Math.min(...xs))}-${f2(Math.max(...xs))}`;
-out.push(`| checks, cold prediction cache | ${checksShare.cold.toFixed(2)} | ${f2(checksShare.coldRatio)} (rounds ${roundRange(checksShare.coldRatioRounds)}) |`);
-out.push(`| checks, warm prediction cache | ${checksShare.warm.toFixed(2)} | ${f2(checksShare.warmRatio)} (rounds ${roundRange(checksShare.warmRatioRounds)}) |`);
+out.push(`| checks, cold prediction cache | ${checksShare.cold.toFixed(2)} | ${f2(checksShare.coldRatio)} (rounds ${range(checksShare.coldRatioRounds)}) |`);
+out.push(`| checks, warm prediction cache | ${checksShare.warm.toFixed(2)} | ${f2(checksShare.warmRatio)} (rounds ${range(checksShare.warmRatioRounds)}) |`);
 out.push(`memory per worker (k = 2, n = 1000): V8 heap ${workerMemory.v8HeapMB.toFixed(1)} MiB + WASM memory ${workerMemory.wasmMB.toFixed(1)} MiB (the WASM table above gives other k, n)`);
 out.push("\nTargets");
 out.push("| target | measured | met |");
 out.push("|---|---|---|");
 const roundsNote = (t: (typeof targets)[number]) =>
-  !t.roundsRange ? "" : `; rounds ${f2(t.roundsRange[0])}-${f2(t.roundsRange[1])}: ${t.rounds === "mixed" ? "some meet it, some not (not resolved on this machine)" : t.rounds === "all met" ? "every round meets it" : "no round meets it"}`;
+  !t.roundsRange ? "" : `; rounds ${range(t.roundsRange)}: ${t.rounds === "mixed" ? "some meet it, some not (not resolved on this machine)" : t.rounds === "all met" ? "every round meets it" : "no round meets it"}`;
 for (const t of targets) out.push(`| ${t.target} | ${f2(t.value)} | ${t.met === null ? "not measured" : t.met ? "yes" : "NO"}${roundsNote(t)} |`);
 if (nativeNote) out.push(`\nnative C: ${nativeNote}`);
 if (numpyNote) out.push(`numpy: ${numpyNote}`);
