@@ -2,19 +2,31 @@
 // half-written file and an interrupted write leaves the old file (or none). A pure helper at the
 // bottom of the house: every floor that writes files (run, theory's cache, report) uses this one.
 
-import { mkdirSync, renameSync, rmSync, writeFileSync } from "node:fs";
+import { closeSync, mkdirSync, openSync, renameSync, rmSync, writeFileSync, writeSync } from "node:fs";
 import { dirname } from "node:path";
 import { threadId } from "node:worker_threads";
 
 let serial = 0;
 
-/** Write `text` to `path` atomically, creating its folder; the temp file is removed on failure. */
-export function writeAtomic(path: string, text: string): void {
+/**
+ * Write `text` to `path` atomically, creating its folder; the temp file is removed on failure. An
+ * array is written piece after piece (the file holds their concatenation, never built as one string:
+ * a checkpoint's 30 MB of base64 need not be joined, escaped and converted again).
+ */
+export function writeAtomic(path: string, text: string | readonly string[]): void {
   mkdirSync(dirname(path) || ".", { recursive: true });
   // Unique per process, thread and call: concurrent writers of one path never share a temp file.
   const tmp = `${path}.tmp-${process.pid}-${threadId}-${serial++}`;
   try {
-    writeFileSync(tmp, text);
+    if (typeof text === "string") writeFileSync(tmp, text);
+    else {
+      const fd = openSync(tmp, "w");
+      try {
+        for (const piece of text) writeSync(fd, piece);
+      } finally {
+        closeSync(fd);
+      }
+    }
     renameSync(tmp, path);
   } catch (err) {
     rmSync(tmp, { force: true });
