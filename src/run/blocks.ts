@@ -9,12 +9,17 @@ import type { BlockStats, KeptSample } from "./types.js";
 /** At most this many per-path records are kept for distributional checks (2^17). */
 export const MAX_KEPT = 1 << 17;
 
-/** Candidates for the kept sample: path index, its selection hash, and its values. */
+/**
+ * Candidates for the kept sample: path index, its selection hash, and its values. Typed arrays (both
+ * integers below 2^53, so exact in a double): a block's set crosses threads as one copy of bytes,
+ * and concatenating, ordering and checkpointing 10^5 rows of a 30-number record allocates no
+ * numbers one by one.
+ */
 export interface KeptCandidates {
-  pathIndex: number[];
-  hash: number[];
+  pathIndex: Float64Array;
+  hash: Float64Array;
   /** Row-major: record i occupies values[i*dim .. (i+1)*dim), dim = recordLayout(grid.length).width. */
-  values: number[];
+  values: Float64Array;
 }
 
 export interface BlockOutput {
@@ -149,15 +154,20 @@ function selectKept(
   keep: number,
 ): KeptCandidates {
   const threshold = totalPaths <= keep ? Infinity : Math.ceil((1.1 * keep * 2 ** 53) / totalPaths);
-  const out: KeptCandidates = { pathIndex: [], hash: [], values: [] };
+  const pathIndex = new Float64Array(pathCount);
+  const hash = new Float64Array(pathCount);
+  const kept = new Float64Array(pathCount * dim);
+  let count = 0;
   for (let p = 0; p < pathCount; p++) {
     const h = pathHash(seed, firstPath + p);
     if (h >= threshold) continue;
-    out.pathIndex.push(firstPath + p);
-    out.hash.push(h);
-    for (let j = 0; j < dim; j++) out.values.push(values[p * dim + j]);
+    pathIndex[count] = firstPath + p;
+    hash[count] = h;
+    for (let j = 0, from = p * dim, to = count * dim; j < dim; j++) kept[to + j] = values[from + j];
+    count++;
   }
-  return out;
+  // Copies of the used part (a view would carry the whole buffer to the main thread).
+  return count === pathCount ? { pathIndex, hash, values: kept } : { pathIndex: pathIndex.slice(0, count), hash: hash.slice(0, count), values: kept.slice(0, count * dim) };
 }
 
 /**
@@ -213,20 +223,14 @@ function rowHomes(sets: KeptCandidates[]): { setOf: Int32Array; rowOf: Int32Arra
 
 /** Keep the `keep` candidates with the smallest hashes (ties by path index) out of candidate sets. */
 export function mergeKept(sets: KeptCandidates[], dim: number, keep: number = MAX_KEPT): KeptCandidates {
-  const pathIndex: number[] = [];
-  const hash: number[] = [];
-  for (const k of sets) {
-    for (let row = 0; row < k.hash.length; row++) {
-      pathIndex.push(k.pathIndex[row]);
-      hash.push(k.hash[row]);
-    }
-  }
+  const pathIndex = concatColumn(sets.map((k) => k.pathIndex));
+  const hash = concatColumn(sets.map((k) => k.hash));
   // By path index, then (stable) by hash: hash order with ties broken by path index.
   const byPath = integerOrder(pathIndex);
   const byHash = integerOrder(Array.from(byPath, (r) => hash[r]));
   const rows = byHash.subarray(0, Math.min(keep, byHash.length));
   const { setOf, rowOf } = rowHomes(sets);
-  const out: KeptCandidates = { pathIndex: new Array<number>(rows.length), hash: new Array<number>(rows.length), values: new Array<number>(rows.length * dim) };
+  const out: KeptCandidates = { pathIndex: new Float64Array(rows.length), hash: new Float64Array(rows.length), values: new Float64Array(rows.length * dim) };
   for (let i = 0; i < rows.length; i++) {
     const r = byPath[rows[i]];
     out.pathIndex[i] = pathIndex[r];
@@ -238,13 +242,30 @@ export function mergeKept(sets: KeptCandidates[], dim: number, keep: number = MA
   return out;
 }
 
+/** Columns end to end in one new array (the one column itself when there is one). */
+export function concatColumn(columns: Float64Array[]): Float64Array {
+  if (columns.length === 1) return columns[0];
+  const out = new Float64Array(columns.reduce((t, c) => t + c.length, 0));
+  let at = 0;
+  for (const c of columns) {
+    out.set(c, at);
+    at += c.length;
+  }
+  return out;
+}
+
+/** Candidate sets as one: rows in the sets' order (the one set itself when there is one). */
+export function concatKept(sets: KeptCandidates[]): KeptCandidates {
+  return { pathIndex: concatColumn(sets.map((k) => k.pathIndex)), hash: concatColumn(sets.map((k) => k.hash)), values: concatColumn(sets.map((k) => k.values)) };
+}
+
 /**
  * Row order by path index when the path indexes are distinct and span at most 4x as many integers as
  * there are rows (a run's candidates: every path at most once, all of them when all are kept): a
  * slot per integer of the span, filled and read in order (O(rows), no sort). Null when two rows share
  * a path index or the span is wider (then integerOrder, which also keeps ties in input order).
  */
-function slotOrder(pathIndex: number[]): Int32Array | null {
+function slotOrder(pathIndex: ArrayLike<number>): Int32Array | null {
   const count = pathIndex.length;
   let min = Infinity;
   let max = -Infinity;
@@ -270,7 +291,7 @@ function slotOrder(pathIndex: number[]): Int32Array | null {
 /** The kept sample as columns, in ascending path order (of one candidate set, or of all of several sets). */
 export function keptToSample(k: KeptCandidates | KeptCandidates[], dim: number): KeptSample {
   const sets = Array.isArray(k) ? k : [k];
-  const pathIndex = sets.length === 1 ? sets[0].pathIndex : sets.flatMap((c) => c.pathIndex);
+  const pathIndex = concatColumn(sets.map((c) => c.pathIndex));
   const order = slotOrder(pathIndex) ?? integerOrder(pathIndex);
   const { setOf, rowOf } = rowHomes(sets);
   const values = Array.from({ length: dim }, () => new Float64Array(order.length));

@@ -9,7 +9,7 @@ import { CONTROLS_PER_WALK, recordLayout } from "../engine/types.js";
 import { summarize } from "../stats/moments.js";
 import { blockCount, blockRange } from "../suite/load.js";
 import type { LoadedSuite, Suite } from "../suite/schema.js";
-import { keptToSample, MAX_KEPT, mergeBlockMoments, mergeKept, summarizeBlock, type BlockOutput, type KeptCandidates } from "./blocks.js";
+import { concatKept, keptToSample, MAX_KEPT, mergeBlockMoments, mergeKept, summarizeBlock, type BlockOutput, type KeptCandidates } from "./blocks.js";
 import type { BlockStats, ResultRecord, SimulationResult } from "./types.js";
 import type { RunState } from "./state.js";
 
@@ -88,7 +88,7 @@ export class BlockCollector {
    */
   snapshot(): RunState {
     let kept: KeptCandidates;
-    if (this.keptCount <= MAX_KEPT) this.kept = [(kept = concatKept(this.kept, this.dim))];
+    if (this.keptCount <= MAX_KEPT) this.kept = [(kept = concatKept(this.kept))];
     else kept = this.compactKept();
     return { blocks: [...this.blocks.values()].sort((a, b) => a.block - b.block), kept, min: this.min, max: this.max };
   }
@@ -130,23 +130,6 @@ export class BlockCollector {
       workers,
     };
   }
-}
-
-/** Candidate sets as one (rows in the sets' order). */
-function concatKept(sets: KeptCandidates[], dim: number): KeptCandidates {
-  if (sets.length === 1) return sets[0];
-  const count = sets.reduce((t, c) => t + c.pathIndex.length, 0);
-  const out: KeptCandidates = { pathIndex: new Array<number>(count), hash: new Array<number>(count), values: new Array<number>(count * dim) };
-  let at = 0;
-  for (const c of sets) {
-    for (let r = 0; r < c.pathIndex.length; r++, at++) {
-      out.pathIndex[at] = c.pathIndex[r];
-      out.hash[at] = c.hash[r];
-    }
-    const v = c.values;
-    for (let i = 0, to = (at - c.pathIndex.length) * dim; i < v.length; i++, to++) out.values[to] = v[i];
-  }
-  return out;
 }
 
 /** The `results` rows: one per measure of the suite and n of its grid, from block-ordered merges. */

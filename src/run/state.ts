@@ -74,15 +74,15 @@ export function blockFromJson(j: BlockStatsJson, where: string): BlockStats {
   return { block: j.block, firstPath: j.firstPath, paths: j.paths, moments, comoments, controlComoments };
 }
 
-function f64ToB64(a: ArrayLike<number>): string {
-  return Buffer.from(Float64Array.from(a).buffer).toString("base64");
+function f64ToB64(a: Float64Array): string {
+  return Buffer.from(a.buffer, a.byteOffset, a.byteLength).toString("base64");
 }
-function b64ToF64(s: string, where: string): number[] {
+function b64ToF64(s: string, where: string): Float64Array {
   const buf = Buffer.from(s, "base64");
   if (buf.length % 8 !== 0) throw new Error(`${where}: kept-sample column has a truncated length`);
   const copy = new Uint8Array(buf.length);
   copy.set(buf);
-  return Array.from(new Float64Array(copy.buffer));
+  return new Float64Array(copy.buffer);
 }
 
 export function keptToJson(k: KeptCandidates): KeptJson {

@@ -53,7 +53,7 @@ describe("checkpoints", () => {
     expect(kept.pathIndex.length).toBe(suite.paths);
     // The same rows: merged (hash order, the old snapshot) from the arrival-order set.
     const merged = mergeKept([kept], dim);
-    const rows = (k: typeof kept) => k.pathIndex.map((p, r) => [p, k.hash[r], ...k.values.slice(r * dim, (r + 1) * dim)]).sort((a, b) => a[0] - b[0]);
+    const rows = (k: typeof kept) => Array.from(k.pathIndex, (p, r) => [p, k.hash[r], ...k.values.slice(r * dim, (r + 1) * dim)]).sort((a, b) => a[0] - b[0]);
     expect(rows(kept)).toEqual(rows(merged));
   });
 

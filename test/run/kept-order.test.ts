@@ -2,8 +2,17 @@ import { describe, expect, it } from "vitest";
 import seedrandom from "seedrandom";
 import { integerOrder, keptToSample, mergeKept, pathHash, type KeptCandidates } from "../../src/run/blocks.js";
 
+/** Candidates as plain arrays (easy to build and filter here); `typed` gives the library's form. */
+interface PlainKept {
+  pathIndex: number[];
+  hash: number[];
+  values: number[];
+}
+const typed = (k: PlainKept): KeptCandidates => ({ pathIndex: Float64Array.from(k.pathIndex), hash: Float64Array.from(k.hash), values: Float64Array.from(k.values) });
+const typedAll = (sets: PlainKept[]) => sets.map(typed);
+
 // Reference: the definitions, by comparison sorts of row records.
-function referenceMerge(sets: KeptCandidates[], dim: number, keep: number): KeptCandidates {
+function referenceMerge(sets: PlainKept[], dim: number, keep: number): PlainKept {
   const rows = sets.flatMap((k) => k.hash.map((h, r) => ({ h, p: k.pathIndex[r], v: k.values.slice(r * dim, (r + 1) * dim) })));
   rows.sort((a, b) => a.h - b.h || a.p - b.p);
   const top = rows.slice(0, keep);
@@ -11,10 +20,10 @@ function referenceMerge(sets: KeptCandidates[], dim: number, keep: number): Kept
 }
 
 /** Candidate sets of contiguous path ranges (blocks), in a shuffled arrival order. */
-function blockSets(rng: () => number, blocks: number, perBlock: number, dim: number, clash = false): KeptCandidates[] {
-  const sets: KeptCandidates[] = [];
+function blockSets(rng: () => number, blocks: number, perBlock: number, dim: number, clash = false): PlainKept[] {
+  const sets: PlainKept[] = [];
   for (let b = 0; b < blocks; b++) {
-    const k: KeptCandidates = { pathIndex: [], hash: [], values: [] };
+    const k: PlainKept = { pathIndex: [], hash: [], values: [] };
     for (let r = 0; r < perBlock; r++) {
       const p = b * perBlock + r;
       k.pathIndex.push(p);
@@ -40,15 +49,15 @@ describe("kept sample order without comparison sorts", () => {
     const rng = seedrandom("merge-kept");
     for (const clash of [false, true]) {
       const sets = blockSets(rng, 9, 37, 3, clash);
-      for (const keep of [1, 50, 333, 1000]) expect(mergeKept(sets, 3, keep)).toEqual(referenceMerge(sets, 3, keep));
+      for (const keep of [1, 50, 333, 1000]) expect(mergeKept(typedAll(sets), 3, keep)).toEqual(typed(referenceMerge(sets, 3, keep)));
     }
   });
 
   it("keptToSample of the candidate sets equals keptToSample of their merge when all are kept", () => {
     const rng = seedrandom("kept-sample");
     const sets = blockSets(rng, 12, 25, 4);
-    const all = mergeKept(sets, 4, 10_000);
-    const direct = keptToSample(sets, 4);
+    const all = mergeKept(typedAll(sets), 4, 10_000);
+    const direct = keptToSample(typedAll(sets), 4);
     expect(direct).toEqual(keptToSample(all, 4));
     expect(direct.pathIndex).toEqual(Array.from({ length: 300 }, (_, i) => i));
   });
@@ -57,7 +66,7 @@ describe("kept sample order without comparison sorts", () => {
     const rng = seedrandom("kept-runs");
     const dim = 3;
     // Reference: a comparison sort of row records by path index.
-    const reference = (sets: KeptCandidates[]) => {
+    const reference = (sets: PlainKept[]) => {
       const rows = sets.flatMap((k) => k.pathIndex.map((p, r) => ({ p, v: k.values.slice(r * dim, (r + 1) * dim) })));
       rows.sort((a, b) => a.p - b.p);
       return { pathIndex: rows.map((r) => r.p), values: Array.from({ length: dim }, (_, j) => Float64Array.from(rows, (r) => r.v[j])) };
@@ -67,20 +76,20 @@ describe("kept sample order without comparison sorts", () => {
       const keep = k.pathIndex.map(() => b !== 3 && rng() < 0.6);
       return { pathIndex: k.pathIndex.filter((_, r) => keep[r]), hash: k.hash.filter((_, r) => keep[r]), values: k.values.filter((_, i) => keep[Math.floor(i / dim)]) };
     });
-    expect(keptToSample(thinned, dim)).toEqual(reference(thinned));
+    expect(keptToSample(typedAll(thinned), dim)).toEqual(reference(thinned));
     // Interleaved sets (even and odd paths): the ranges overlap, so the rows must be sorted.
-    const interleaved: KeptCandidates[] = [0, 1].map((parity) => {
+    const interleaved: PlainKept[] = [0, 1].map((parity) => {
       const pathIndex = Array.from({ length: 40 }, (_, i) => 2 * i + parity);
       return { pathIndex, hash: pathIndex.map((p) => pathHash(7, p)), values: pathIndex.flatMap(() => [rng(), rng(), rng()]) };
     });
-    const got = keptToSample(interleaved, dim);
+    const got = keptToSample(typedAll(interleaved), dim);
     expect(got).toEqual(reference(interleaved));
     expect(got.pathIndex).toEqual(Array.from({ length: 80 }, (_, i) => i));
     // Sparse indexes (span far beyond 4x the rows) and a repeated index (ties keep input order).
-    const sparse: KeptCandidates[] = [[5e9, 3, 7e12], [12, 3, 1e6]].map((pathIndex) => ({ pathIndex, hash: pathIndex.map(() => 0), values: pathIndex.flatMap(() => [rng(), rng(), rng()]) }));
-    expect(keptToSample(sparse, dim)).toEqual(reference(sparse));
-    expect(keptToSample(sparse, dim).pathIndex).toEqual([3, 3, 12, 1e6, 5e9, 7e12]);
-    const repeated: KeptCandidates[] = [[0, 1, 2], [2, 3]].map((pathIndex) => ({ pathIndex, hash: pathIndex.map(() => 0), values: pathIndex.flatMap(() => [rng(), rng(), rng()]) }));
-    expect(keptToSample(repeated, dim)).toEqual(reference(repeated));
+    const sparse: PlainKept[] = [[5e9, 3, 7e12], [12, 3, 1e6]].map((pathIndex) => ({ pathIndex, hash: pathIndex.map(() => 0), values: pathIndex.flatMap(() => [rng(), rng(), rng()]) }));
+    expect(keptToSample(typedAll(sparse), dim)).toEqual(reference(sparse));
+    expect(keptToSample(typedAll(sparse), dim).pathIndex).toEqual([3, 3, 12, 1e6, 5e9, 7e12]);
+    const repeated: PlainKept[] = [[0, 1, 2], [2, 3]].map((pathIndex) => ({ pathIndex, hash: pathIndex.map(() => 0), values: pathIndex.flatMap(() => [rng(), rng(), rng()]) }));
+    expect(keptToSample(typedAll(repeated), dim)).toEqual(reference(repeated));
   });
 });
