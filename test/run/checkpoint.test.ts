@@ -7,7 +7,7 @@ import { mkdtempSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { validateSuite } from "../../src/suite/load.js";
-import { runSuite } from "../../src/run/run.js";
+import { checkpointDue, runSuite } from "../../src/run/run.js";
 import { CHECKPOINT_FORMAT, checkpointPieces, readCheckpoint, writeCheckpoint } from "../../src/run/checkpoint.js";
 import { runStateToJson } from "../../src/run/state.js";
 import { mergeKept } from "../../src/run/blocks.js";
@@ -70,5 +70,18 @@ describe("checkpoints", () => {
     expect(resumed.sim.sample).toEqual(whole.sim.sample);
     expect(resumed.sim.results).toEqual(whole.sim.results);
     expect(resumed.sim.blocks).toEqual(whole.sim.blocks);
+  });
+});
+
+describe("when a periodic checkpoint is due", () => {
+  it("every few seconds, at most ~2% of the time, never once every block is merged", () => {
+    expect(checkpointDue(3, 10, 5000, 5000, 0)).toBe(true);
+    expect(checkpointDue(3, 10, 4999, 5000, 0)).toBe(false);
+    // A save that cost 200 ms waits 10 s for the next.
+    expect(checkpointDue(3, 10, 9999, 5000, 200)).toBe(false);
+    expect(checkpointDue(3, 10, 10_000, 5000, 200)).toBe(true);
+    // The last block merged: the run is complete, no save.
+    expect(checkpointDue(10, 10, 60_000, 5000, 0)).toBe(false);
+    expect(checkpointDue(9, 10, 60_000, 5000, 0)).toBe(true);
   });
 });
