@@ -39,6 +39,11 @@ describe("bench --smoke", () => {
       expect(j.checksShare.warmRatioRounds[0]).toBeCloseTo(j.checksShare.warmRatio, 12);
       expect(j.checksShare.coldRatioRounds[0]).toBeCloseTo(j.checksShare.coldRatio, 12);
       expect(j.targets.length).toBeGreaterThanOrEqual(6);
+      // The efficiency is the median of per-round ratios t1 / (2 t2) (one round in --smoke).
+      const round = j.parallel.nativeRounds[0] as { twoWorkers: number; twoWorkersNewThreads: number; oneWorker: number };
+      expect(j.parallel.efficiencyRounds).toHaveLength(1);
+      expect(j.parallel.efficiency).toBeCloseTo(round.oneWorker / (2 * round.twoWorkers), 12);
+      expect(j.parallel.freshEfficiency).toBeCloseTo(round.oneWorker / (2 * round.twoWorkersNewThreads), 12);
       if (hasGcc) {
         expect(j.nativeCheck.compared).toBeGreaterThan(0);
         expect(j.nativeCheck.identical).toBe(true);
