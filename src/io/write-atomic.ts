@@ -22,7 +22,11 @@ export function writeAtomic(path: string, text: string | readonly string[]): voi
     else {
       const fd = openSync(tmp, "w");
       try {
-        for (const piece of text) writeSync(fd, piece);
+        for (const piece of text) {
+          // writeSync may write less than asked (writeFileSync loops the same way).
+          const bytes = Buffer.from(piece, "utf8");
+          for (let done = 0; done < bytes.length; ) done += writeSync(fd, bytes, done, bytes.length - done);
+        }
       } finally {
         closeSync(fd);
       }

@@ -3,7 +3,7 @@
 // merge) resumes to the bits of an uninterrupted run.
 
 import { describe, expect, it } from "vitest";
-import { mkdtempSync, readFileSync } from "node:fs";
+import { mkdtempSync, readdirSync, readFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { validateSuite } from "../../src/suite/load.js";
@@ -11,6 +11,7 @@ import { checkpointDue, runSuite } from "../../src/run/run.js";
 import { CHECKPOINT_FORMAT, checkpointPieces, readCheckpoint, writeCheckpoint } from "../../src/run/checkpoint.js";
 import { runStateToJson } from "../../src/run/state.js";
 import { mergeKept } from "../../src/run/blocks.js";
+import { writeAtomic } from "../../src/io/write-atomic.js";
 import { recordLayout } from "../../src/engine/types.js";
 
 const suite = validateSuite({
@@ -83,5 +84,18 @@ describe("when a periodic checkpoint is due", () => {
     // The last block merged: the run is complete, no save.
     expect(checkpointDue(10, 10, 60_000, 5000, 0)).toBe(false);
     expect(checkpointDue(9, 10, 60_000, 5000, 0)).toBe(true);
+  });
+});
+
+describe("writeAtomic in pieces", () => {
+  it("the file holds the pieces' concatenation (UTF-8), no temp file is left", () => {
+    const dir = mkdtempSync(join(tmpdir(), "walkhull-atomic-"));
+    const file = join(dir, "sub", "x.json");
+    const pieces = ['{"a":"', "x".repeat(70_000), "é→", '"}'];
+    writeAtomic(file, pieces);
+    expect(readFileSync(file, "utf8")).toBe(pieces.join(""));
+    writeAtomic(file, "plain");
+    expect(readFileSync(file, "utf8")).toBe("plain");
+    expect(readdirSync(join(dir, "sub"))).toEqual(["x.json"]);
   });
 });
