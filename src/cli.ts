@@ -1,20 +1,8 @@
 #!/usr/bin/env node
-// The `walkhull` executable: run a command and exit with its code (0 ok, 1 check failed, 2 bad input).
-// process.exitCode (not process.exit) so that piped stdout is flushed before the process ends.
-// `run` starts its workers and the module compile first (src/run/prestart.ts), so that they load
-// while this thread loads the command code and validates the suite.
-import { prestartWorkers, releaseEarly } from "./run/prestart.js";
+// The `walkhull` executable. It loads dist/bundle/cli.js when `npm run build` has made it (cli-main.ts
+// and everything it imports in one file, scripts/bundle.mjs: ~0.2 s less start-up than ~300 modules
+// one by one), else cli-main.js and its modules.
+import { existsSync } from "node:fs";
 
-const argv = process.argv.slice(2);
-const early = prestartWorkers(argv);
-const { main } = await import("./commands.js");
-
-main(argv, early).then(
-  (code) => {
-    process.exitCode = code;
-  },
-  (e) => {
-    process.stderr.write(`walkhull: internal error: ${(e as Error).stack ?? e}\n`);
-    process.exitCode = 70;
-  },
-).finally(() => releaseEarly(early));
+const bundle = new URL("./bundle/cli.js", import.meta.url);
+await import(existsSync(bundle) ? bundle.href : "./cli-main.js");

@@ -1,9 +1,8 @@
 // The tool's version (from package.json) and the project root, for provenance and checkpoints.
 import { readFileSync } from "node:fs";
-import { fileURLToPath } from "node:url";
+import { PROJECT_ROOT } from "./paths.js";
 
-/** The project root: this file is src/version.ts or dist/version.js, one level below it. */
-export const PROJECT_ROOT = fileURLToPath(new URL("../", import.meta.url));
+export { PROJECT_ROOT };
 
 export function toolVersion(): string {
   try {

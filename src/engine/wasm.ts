@@ -9,8 +9,9 @@ import { CONTROLS_PER_WALK, recordLayout, type Kernel, type KernelSetup } from "
 import type { instantiate } from "../../build/walkhull.js";
 import { zigguratTables } from "./prng.js";
 import { MEASURE_COUNT } from "../geometry/measure-registry.js";
+import { projectFile } from "../paths.js";
 
-const WASM_URL = new URL("../../build/walkhull.wasm", import.meta.url);
+const WASM_URL = projectFile("build/walkhull.wasm");
 
 function missing(err: unknown): Error {
   return new Error(

@@ -8,9 +8,10 @@
 import { availableParallelism } from "node:os";
 import { Worker } from "node:worker_threads";
 import { loadWasmModule } from "../engine/wasm.js";
+import { workerEntry } from "../paths.js";
 
 /** The worker script is always the compiled one (tsx does not reach worker_threads on Node 20). */
-export const WORKER_URL = new URL("../../dist/run/worker.js", import.meta.url);
+export const WORKER_URL = workerEntry("run-worker", "dist/run/worker.js");
 
 export interface EarlyWorker {
   worker: Worker;

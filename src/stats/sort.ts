@@ -6,6 +6,7 @@
 // Cost O(n) (radix) or O(n log n). Example: sortFloat64(Float64Array.of(2, -0, 0, -1)) -> [-1, -0, 0, 2].
 
 import { loadHelperModule } from "../engine/helper-module.js";
+import { projectFile } from "../paths.js";
 
 interface SortExports {
   memory: WebAssembly.Memory;
@@ -18,7 +19,7 @@ interface SortExports {
 const RADIX_FROM = 256;
 
 /** build/sort.wasm (two levels below the project root from src/stats and dist/stats), or null when not built. */
-const SORT_URL = new URL("../../build/sort.wasm", import.meta.url);
+const SORT_URL = projectFile("build/sort.wasm");
 let radix: SortExports | null | undefined;
 export function radixSortModule(): SortExports | null {
   if (radix === undefined) radix = loadHelperModule<SortExports>(SORT_URL);

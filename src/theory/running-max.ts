@@ -15,6 +15,7 @@
 // negative drift the iterates reach the stationary law to the last bit (after ~(8.5/r)^2 steps) and stop there.
 
 import { loadHelperModule } from "../engine/helper-module.js";
+import { projectFile } from "../paths.js";
 import { INV_SQRT_2PI, positivePartMean } from "./special.js";
 import { normalCdf } from "../stats/normal.js";
 
@@ -276,7 +277,7 @@ interface LindleyExports {
 }
 
 /** build/lindley.wasm (two levels below the project root from src/theory and dist/theory), or null when not built. */
-const LINDLEY_URL = new URL("../../build/lindley.wasm", import.meta.url);
+const LINDLEY_URL = projectFile("build/lindley.wasm");
 let lindley: LindleyExports | null | undefined;
 export function lindleyModule(): LindleyExports | null {
   if (lindley === undefined) lindley = loadHelperModule<LindleyExports>(LINDLEY_URL);

@@ -13,11 +13,12 @@ import { Worker } from "node:worker_threads";
 import { cachedPrediction, predictCached } from "../theory/cache.js";
 import type { MeanTargets, Prediction } from "../theory/types.js";
 import { blockCount, canonicalJson } from "../suite/load.js";
+import { workerEntry } from "../paths.js";
 import type { LoadedSuite } from "../suite/schema.js";
 import { requiredMeanAccuracy, runMeanTargets } from "./accuracy.js";
 import type { BlockStats, SimulationResult } from "../run/types.js";
 
-const WORKER_URL = new URL("../../dist/theory/predict-worker.js", import.meta.url);
+const WORKER_URL = workerEntry("predict-worker", "dist/theory/predict-worker.js");
 
 /** Blocks whose statistics size the early targets: 0..K-1. */
 export function leadInBlocks(total: number): number {

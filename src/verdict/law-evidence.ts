@@ -12,6 +12,7 @@
 import { availableParallelism } from "node:os";
 import { Worker } from "node:worker_threads";
 import { recordLayout } from "../engine/types.js";
+import { workerEntry } from "../paths.js";
 import { measureBlocks, measureSample } from "../run/series.js";
 import type { BlockCollector } from "../run/simulate.js";
 import type { SimulationResult } from "../run/types.js";
@@ -72,7 +73,7 @@ export function lawEvidenceOf(input: LawEvidenceInput): LawEvidence {
   }
 }
 
-const WORKER_URL = new URL("../../dist/verdict/law-evidence-worker.js", import.meta.url);
+const WORKER_URL = workerEntry("law-evidence-worker", "dist/verdict/law-evidence-worker.js");
 
 interface Helper {
   worker: Worker;
