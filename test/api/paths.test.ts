@@ -3,10 +3,11 @@
 
 import { describe, expect, it } from "vitest";
 import { spawnSync } from "node:child_process";
-import { existsSync, readFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readFileSync, utimesSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
 import { fileURLToPath } from "node:url";
 import { join } from "node:path";
-import { PROJECT_ROOT, projectFile, workerEntry } from "../../src/paths.js";
+import { bundleIsCurrent, PROJECT_ROOT, projectFile, workerEntry } from "../../src/paths.js";
 
 describe("project paths and bundles", () => {
   it("the root holds walkhull's package.json and the built modules", () => {
@@ -17,6 +18,19 @@ describe("project paths and bundles", () => {
   it("a worker entry is the bundle when built, else tsc's output", () => {
     expect(fileURLToPath(workerEntry("run-worker", "dist/run/worker.js"))).toBe(join(PROJECT_ROOT, "dist/bundle/run-worker.js"));
     expect(fileURLToPath(workerEntry("no-such-bundle", "dist/run/worker.js"))).toBe(join(PROJECT_ROOT, "dist/run/worker.js"));
+  });
+
+  it("a bundle older than its module is not used", () => {
+    const dir = mkdtempSync(join(tmpdir(), "walkhull-paths-"));
+    const [bundle, plain] = [join(dir, "b.js"), join(dir, "p.js")];
+    writeFileSync(plain, "");
+    writeFileSync(bundle, "");
+    utimesSync(plain, 1000, 1000);
+    utimesSync(bundle, 2000, 2000);
+    expect(bundleIsCurrent(bundle, plain)).toBe(true);
+    utimesSync(plain, 3000, 3000);
+    expect(bundleIsCurrent(bundle, plain)).toBe(false);
+    expect(bundleIsCurrent(join(dir, "none.js"), plain)).toBe(false);
   });
 
   it("the bundled CLI and the plain modules answer alike (help, a bad suite)", () => {
