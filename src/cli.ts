@@ -7,7 +7,7 @@ import { statSync } from "node:fs";
 const bundle = new URL("./bundle/cli.js", import.meta.url);
 const plain = new URL("./cli-main.js", import.meta.url);
 // Only a bundle not older than the module it was made from (a tsc run alone leaves it stale).
-let current = false;
+let current: boolean;
 try {
   current = statSync(bundle).mtimeMs >= statSync(plain).mtimeMs;
 } catch {
