@@ -1,6 +1,6 @@
 // Bundles the entry points of the built tool (tsc's output in dist/) into dist/bundle/: the CLI and
 // the three worker threads, each one file, so that a process or thread loads one module instead of
-// ~150-300 (measured: `walkhull help` 0.27-0.40 -> 0.14-0.21 s; a law-evidence thread ready in ~75
+// ~150-300 (measured: `walkhull help` 0.36-0.46 -> 0.21-0.23 s in 5 alternating runs; a law-evidence thread ready in ~75
 // instead of ~150 ms). dist/bundle/ sits two levels below the root like dist/<folder>/, and
 // src/paths.ts finds the root from any of them. Run by `npm run build:ts` after tsc.
 import { build } from "esbuild";

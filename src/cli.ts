@@ -1,16 +1,9 @@
 #!/usr/bin/env node
 // The `walkhull` executable. It loads dist/bundle/cli.js when `npm run build` has made it (cli-main.ts
 // and everything it imports in one file, scripts/bundle.mjs: ~0.2 s less start-up than ~300 modules
-// one by one), else cli-main.js and its modules.
-import { statSync } from "node:fs";
+// one by one) and it is not older than cli-main.js (a tsc run alone leaves it stale), else cli-main.js.
+import { bundleIsCurrent } from "./paths.js";
 
 const bundle = new URL("./bundle/cli.js", import.meta.url);
 const plain = new URL("./cli-main.js", import.meta.url);
-// Only a bundle not older than the module it was made from (a tsc run alone leaves it stale).
-let current: boolean;
-try {
-  current = statSync(bundle).mtimeMs >= statSync(plain).mtimeMs;
-} catch {
-  current = false;
-}
-await import(current ? bundle.href : plain.href);
+await import(bundleIsCurrent(bundle.pathname, plain.pathname) ? bundle.href : plain.href);
